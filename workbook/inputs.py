@@ -1,0 +1,236 @@
+"""The catalogue: every input of an axis, declared once (see :mod:`workbook.fields`).
+
+Sections, in the order a design file lists them:
+
+``identity``   machine, axis, revision, author, date
+``cylinder``   bore, rod, stroke, rated pressure
+``oil``        grade, datasheet viscosities, density, expansion, bulk modulus, pour point
+``supply``     fixed pump and its relief valve, drive power
+``flow_valve`` where the flow is metered and by what
+``holding``    load-holding valve on the load-holding side (or none)
+``operation``  load cases, friction, oil temperatures, tank back pressure, target speed
+``ratings``    hose and valve pressure ratings, line bores
+``limits``     the checks' defaults, each with its source, all overridable
+
+Sources of defaults: ``"common practice"`` (facts of the trade without a citable
+source), ``"from memory"`` (a value recalled but not checked against a source at hand),
+``"demo scenario"`` (our invented bin tipper), or the standard named.
+"""
+
+from __future__ import annotations
+
+from .fields import Field, Section
+
+IDENTITY = Section(
+    "identity",
+    "Identity",
+    (
+        Field("machine", "Machine", "text", default="", help="machine name or number"),
+        Field("axis", "Axis", "text", default="", help="axis name within the machine"),
+        Field("revision", "Revision", "text", default="A", help="design revision"),
+        Field("author", "Author", "text", default="", help="who made this revision"),
+        Field("date", "Date", "text", default="", help="date of the revision as the user gives it (YYYY-MM-DD)"),
+    ),
+)
+
+CYLINDER = Section(
+    "cylinder",
+    "Cylinder",
+    (
+        Field("bore", "Bore D", "length", "mm", 80, low=0, low_open=True, high=1000,
+              help="piston diameter; ISO 3320 lists standard bores", source="demo scenario",
+              slider=(25, 250, 1)),
+        Field("rod", "Rod d", "length", "mm", 45, low=0, low_open=True, high=1000,
+              help="rod diameter, smaller than the bore", source="demo scenario",
+              slider=(12, 180, 1)),
+        Field("stroke", "Stroke", "length", "mm", 600, low=0, low_open=True, high=20000,
+              help="full stroke", source="demo scenario"),
+        Field("rated_pressure", "Cylinder rated pressure", "pressure", "bar", 210, low=0, low_open=True,
+              high=2000, help="maximum working pressure of the cylinder from its data sheet",
+              source="user's data sheet"),
+    ),
+)
+
+OIL = Section(
+    "oil",
+    "Oil",
+    (
+        Field("grade", "Viscosity grade", "choice", default="VG46",
+              choices=("VG22", "VG32", "VG46", "VG68", "VG100", "custom"),
+              help="ISO 3448 grade; sets the 40 °C viscosity unless custom", source="ISO 3448"),
+        Field("nu40", "Viscosity at 40 °C", "kinematic_viscosity", "cSt", 46, low=2, high=10000,
+              help="datasheet kinematic viscosity at 40 °C", source="ISO 3448 grade midpoint"),
+        Field("nu100", "Viscosity at 100 °C", "kinematic_viscosity", "cSt", 6.8, low=2, high=1000,
+              help="datasheet kinematic viscosity at 100 °C", source="typical datasheet value (from memory)"),
+        Field("density15", "Density at 15 °C", "density", "kg/m**3", 870, low=600, high=1300,
+              help="oil density at 15 °C", source="mineral oil typical (from memory)"),
+        Field("expansion", "Thermal expansion", "per_temperature", "1/K", 7e-4, low=0, high=0.005,
+              help="volumetric expansion coefficient", source="mineral oil typical (from memory)"),
+        Field("bulk_modulus", "Effective bulk modulus", "pressure", "bar", 14000, low=100, high=30000,
+              help="effective value with hoses and air; pure mineral oil 14000 to 18000 bar",
+              source="from memory"),
+        Field("pour_point", "Pour point", "temperature", "degC", -30, low=-80, high=30,
+              help="below this the viscosity model is not used", source="typical datasheet value (from memory)"),
+    ),
+)
+
+SUPPLY = Section(
+    "supply",
+    "Supply",
+    (
+        Field("displacement", "Pump displacement", "displacement", "cm**3", 16, low=0, low_open=True, high=2000,
+              help="fixed pump displacement per revolution", source="demo scenario"),
+        Field("shaft_speed", "Pump shaft speed", "shaft_speed", "rpm", 1450, low=0, low_open=True, high=6000,
+              help="motor speed", source="demo scenario (4-pole motor at 50 Hz, common practice)"),
+        Field("volumetric_efficiency", "Pump volumetric efficiency", "dimensionless", "", 0.93, low=0.5,
+              low_open=False, high=1.0, help="delivered over geometric flow", source="from memory"),
+        Field("pump_flow", "Pump flow (overrides displacement)", "flow", "L/min", None, low=0, low_open=True,
+              high=5000, help="give the delivered flow directly instead of displacement and speed",
+              optional=True),
+        Field("relief_cracking", "Relief cracking pressure", "pressure", "bar", 160, low=0, low_open=True,
+              high=1000, help="pressure at which the relief valve starts to open", source="demo scenario"),
+        Field("relief_full_flow", "Relief full-flow pressure", "pressure", "bar", 172, low=0, low_open=True,
+              high=1000, help="pressure with all pump flow over the relief valve", source="demo scenario"),
+        Field("drive_power", "Installed drive power", "power", "kW", 7.5, low=0, low_open=True, high=10000,
+              help="electric motor rating of the power unit", source="demo scenario"),
+    ),
+)
+
+FLOW_VALVE = Section(
+    "flow_valve",
+    "Flow valve",
+    (
+        Field("arrangement", "Arrangement", "choice", default="meter-out",
+              choices=("meter-in", "meter-out", "bleed-off"),
+              help="meter into the driving chamber, out of the driven chamber, or bleed off to tank"),
+        Field("direction", "Controlled direction", "choice", default="retract", choices=("extend", "retract"),
+              help="the motion whose speed the flow valve sets"),
+        Field("kind", "Valve kind", "choice", default="compensated",
+              choices=("orifice", "throttle", "needle", "compensated"),
+              help="sharp orifice, long throttle, needle throttle, or pressure-compensated flow valve"),
+        Field("diameter", "Restrictor diameter", "length", "mm", 2.0, low=0, low_open=True, high=100,
+              help="orifice or throttle bore", slider=(0.3, 10, 0.05)),
+        Field("length", "Throttle length", "length", "mm", 20, low=0, low_open=True, high=2000,
+              help="length of a long throttle"),
+        Field("cd", "Discharge coefficient (turbulent)", "dimensionless", "", 0.61, low=0.3, high=1.0,
+              help="sharp-edged orifice, fully turbulent", source="Merritt (1967), from memory"),
+        Field("seat_diameter", "Needle seat diameter", "length", "mm", 4, low=0, low_open=True, high=100,
+              help="seat bore of a needle throttle"),
+        Field("half_angle", "Needle cone half-angle", "angle", "deg", 15, low=0, low_open=True, high=89,
+              help="half-angle of the needle cone"),
+        Field("turns", "Needle opening", "angle", "turn", 1.0, low=0, high=50,
+              help="turns open from the seat (1 turn = 360 deg)"),
+        Field("pitch", "Needle thread pitch", "length", "mm", 0.5, low=0, low_open=True, high=10,
+              help="lift per turn"),
+        Field("setting", "Compensated flow setting", "flow", "L/min", 12, low=0, low_open=True, high=5000,
+              help="flow held by the pressure-compensated valve", source="demo scenario", slider=(0.5, 40, 0.5)),
+        Field("compensator_drop", "Compensator spring drop", "pressure", "bar", 6, low=0.5, high=50,
+              help="metering drop the compensator holds", source="typical 4 to 10 bar (from memory)"),
+        Field("min_drop", "Minimum working drop", "pressure", "bar", 8, low=0.5, high=100,
+              help="below it the compensator is wide open", source="typical datasheet value (from memory)"),
+        Field("droop", "Flow droop over 100 bar", "dimensionless", "%", 2, low=0, high=20,
+              help="flow change per 100 bar of valve drop above the minimum", source="from memory"),
+        Field("check_cracking", "Reverse check cracking", "pressure", "bar", 0.5, low=0, high=20,
+              help="cracking pressure of the reverse free-flow check", source="typical 0.3 to 5 bar (from memory)"),
+    ),
+)
+
+HOLDING = Section(
+    "holding",
+    "Load-holding valve",
+    (
+        Field("kind", "Holding valve", "choice", default="counterbalance",
+              choices=("none", "counterbalance", "back-pressure"),
+              help="counterbalance (pilot-assisted) or a back-pressure valve in series, on the load-holding side"),
+        Field("side", "Load-holding side", "choice", default="cap", choices=("cap", "rod"),
+              help="the chamber whose outflow the holding valve restrains"),
+        Field("setting", "Setting", "pressure", "bar", 130, low=0, low_open=True, high=1000,
+              help="counterbalance or back-pressure setting", source="demo scenario", slider=(10, 350, 1)),
+        Field("pilot_ratio", "Pilot ratio", "dimensionless", "", 3, low=0, low_open=True, high=20,
+              help="counterbalance pilot area over seat area (R:1)", source="demo scenario"),
+        Field("gradient", "Opening gradient", "pressure_per_flow", "bar/(L/min)", 0.5, low=0, low_open=True,
+              high=100, help="pressure rise above the opening point per flow", source="from memory"),
+        Field("check_cracking", "Reverse check cracking", "pressure", "bar", 1, low=0, high=20,
+              help="cracking pressure of the free-flow check", source="typical 0.3 to 5 bar (from memory)"),
+    ),
+)
+
+OPERATION = Section(
+    "operation",
+    "Operation",
+    (
+        Field("loads", "Load cases", "quantity_list", "kN", [2, 6, 10], list_dimension="force",
+              help="external force on the rod, positive pushing it in (resists extension, overruns retraction)",
+              source="demo scenario"),
+        Field("friction", "Running friction", "force", "kN", 0.4, low=0, high=1e5,
+              help="seal friction opposing motion", source="typical 2 to 5 bar equivalent (from memory)"),
+        Field("temp_min", "Oil temperature, cold", "temperature", "degC", 20, low=-60, high=150,
+              help="coldest running oil temperature", source="demo scenario"),
+        Field("temp_max", "Oil temperature, warm", "temperature", "degC", 60, low=-60, high=150,
+              help="warmest running oil temperature", source="demo scenario"),
+        Field("tank_pressure", "Return-line back pressure", "pressure", "bar", 2, low=0, high=50,
+              help="pressure at the valve's tank port (filter, cooler, line)", source="common practice"),
+        Field("target_speed", "Target speed", "velocity", "mm/s", 80, low=0, low_open=True, high=5000,
+              help="speed the controlled motion must reach", source="demo scenario"),
+        Field("speed_tolerance", "Speed tolerance", "dimensionless", "%", 15, low=0, high=100,
+              help="allowed speed deviation over loads and temperatures", source="demo scenario"),
+        Field("mass", "Moving mass", "mass", "kg", 800, low=0, high=1e7,
+              help="load and rod mass (for natural frequency)", source="demo scenario"),
+    ),
+)
+
+RATINGS = Section(
+    "ratings",
+    "Ratings and lines",
+    (
+        Field("hose_rating", "Hose rated pressure", "pressure", "bar", 250, low=0, low_open=True, high=2000,
+              help="maximum working pressure of the hoses", source="user's data sheet"),
+        Field("valve_rating", "Valve rated pressure", "pressure", "bar", 315, low=0, low_open=True, high=2000,
+              help="lowest maximum working pressure of the valves", source="user's data sheet"),
+        Field("pressure_line_bore", "Pressure line bore", "length", "mm", 10, low=0, low_open=True, high=500,
+              help="inside diameter of the pump-to-valve line", source="demo scenario"),
+        Field("return_line_bore", "Return line bore", "length", "mm", 12, low=0, low_open=True, high=500,
+              help="inside diameter of the return line", source="demo scenario"),
+        Field("suction_line_bore", "Suction line bore", "length", "mm", 25, low=0, low_open=True, high=500,
+              help="inside diameter of the pump suction line", source="demo scenario"),
+    ),
+)
+
+LIMITS = Section(
+    "limits",
+    "Check limits",
+    (
+        Field("counterbalance_factor", "Counterbalance setting factor", "dimensionless", "", 1.3, low=1.0,
+              high=3.0, help="setting over the highest load-induced pressure", source="common practice"),
+        Field("pressure_margin", "Pressure caution margin", "dimensionless", "%", 10, low=0, high=50,
+              help="caution when a pressure is within this share of its rating", source="common practice"),
+        Field("cavitation_abs", "Lowest absolute chamber pressure", "pressure", "bar", 0.3, low=0, high=1,
+              help="absolute pressure below which a chamber is taken as cavitating", source="from memory"),
+        Field("heat_share", "Throttling heat share", "dimensionless", "%", 30, low=0, high=100,
+              help="caution when valve and relief losses exceed this share of drive power",
+              source="common practice"),
+        Field("v_suction", "Suction line velocity", "velocity", "m/s", 1.2, low=0, low_open=True, high=10,
+              help="highest mean oil velocity in the suction line", source="common practice"),
+        Field("v_return", "Return line velocity", "velocity", "m/s", 4, low=0, low_open=True, high=20,
+              help="highest mean oil velocity in the return line (2 to 4 m/s)", source="common practice"),
+        Field("v_pressure", "Pressure line velocity", "velocity", "m/s", 6, low=0, low_open=True, high=30,
+              help="highest mean oil velocity in the pressure line (3 to 6 m/s)", source="common practice"),
+    ),
+)
+
+#: every section, in design-file order
+SECTIONS: tuple[Section, ...] = (IDENTITY, CYLINDER, OIL, SUPPLY, FLOW_VALVE, HOLDING, OPERATION, RATINGS, LIMITS)
+
+#: sections that describe an axis (all but identity)
+AXIS_SECTIONS: tuple[Section, ...] = SECTIONS[1:]
+
+BY_KEY = {s.key: s for s in SECTIONS}
+
+
+def section(key: str) -> Section:
+    """The section called ``key``."""
+    return BY_KEY[key]
+
+
+__all__ = ["SECTIONS", "AXIS_SECTIONS", "BY_KEY", "section",
+           "IDENTITY", "CYLINDER", "OIL", "SUPPLY", "FLOW_VALVE", "HOLDING", "OPERATION", "RATINGS", "LIMITS"]

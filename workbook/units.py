@@ -1,0 +1,324 @@
+"""One unit registry for the whole workbook, used at the boundary only.
+
+Inputs arrive as text (``"63 mm"``, ``"2300 psi"``, ``"10 gpm"``, ``"46 cSt"``,
+``"40 degC"``), as :mod:`pint` quantities, or as bare numbers in a field's display unit.
+:func:`to_si` turns them into plain SI floats once; the physics never sees pint.
+:func:`from_si` turns an SI float back into a display unit.
+
+SI units used inside the workbook (the *internal* units):
+
+==================  ==================  ==========================================
+dimension name      internal unit       note
+==================  ==================  ==========================================
+length              m
+area                m**2
+volume              m**3
+pressure            Pa                  gauge unless a name says ``abs``
+flow                m**3/s
+kinematic_viscosity m**2/s              1 cSt = 1 mm²/s = 1e-6 m²/s
+dynamic_viscosity   Pa*s
+temperature         K                   offset units (degC, degF) handled here
+force               N
+mass                kg
+density             kg/m**3
+velocity            m/s
+angle               rad
+time                s
+power               W
+shaft_speed         revolution/s        ``rpm`` is accepted
+displacement        m**3                per revolution of a pump shaft
+per_temperature     1/K                 thermal expansion coefficient
+pressure_per_flow   Pa/(m**3/s)         valve override or opening gradient
+dimensionless       1
+==================  ==================  ==========================================
+
+``gallon`` and ``gpm`` are US liquid gallons (NIST SP 811: 1 gal = 3.785 411 784 L).
+
+>>> round(to_si("160 bar", "pressure", field="relief setting"))
+16000000
+>>> round(to_si("10 gpm", "flow", field="pump flow") * 60000, 4)   # L/min
+37.8541
+>>> round(to_si("40 degC", "temperature", field="oil temperature"), 2)
+313.15
+>>> round(from_si(0.063, "length", "in"), 4)
+2.4803
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from functools import lru_cache
+from typing import Any
+
+import numpy as np
+
+from .errors import InputError
+
+#: internal (SI) unit of each dimension name, as a pint unit expression
+INTERNAL_UNIT: dict[str, str] = {
+    "length": "m",
+    "area": "m**2",
+    "volume": "m**3",
+    "pressure": "Pa",
+    "flow": "m**3/s",
+    "kinematic_viscosity": "m**2/s",
+    "dynamic_viscosity": "Pa*s",
+    "temperature": "K",
+    "force": "N",
+    "mass": "kg",
+    "density": "kg/m**3",
+    "velocity": "m/s",
+    "angle": "rad",
+    "time": "s",
+    "power": "W",
+    "shaft_speed": "revolution/s",
+    "displacement": "m**3",
+    "per_temperature": "1/K",
+    "pressure_per_flow": "Pa/(m**3/s)",
+    "dimensionless": "dimensionless",
+}
+
+#: examples shown in error messages, one per dimension name
+EXAMPLES: dict[str, str] = {
+    "length": "63 mm, 2.5 in",
+    "area": "12 mm**2, 0.02 in**2",
+    "volume": "1.5 L, 90 in**3",
+    "pressure": "160 bar, 2300 psi, 16 MPa",
+    "flow": "40 L/min, 10 gpm",
+    "kinematic_viscosity": "46 cSt, 46 mm**2/s",
+    "dynamic_viscosity": "0.04 Pa*s, 40 cP",
+    "temperature": "40 degC, 104 degF, 313 K",
+    "force": "25 kN, 5000 lbf",
+    "mass": "800 kg, 1800 lb",
+    "density": "870 kg/m**3",
+    "velocity": "0.1 m/s, 100 mm/s",
+    "angle": "30 deg",
+    "time": "2 s",
+    "power": "7.5 kW, 10 hp",
+    "shaft_speed": "1500 rpm",
+    "displacement": "16 cm**3, 1 in**3 (per revolution)",
+    "per_temperature": "7e-4 1/K",
+    "pressure_per_flow": "0.5 bar/(L/min)",
+    "dimensionless": "0.61, 3",
+}
+
+_NUMBER = re.compile(r"^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(.*?)\s*$")
+_ALIASES = {
+    "°C": "degC",
+    "°F": "degF",
+    "℃": "degC",
+    "²": "**2",
+    "³": "**3",
+    "µ": "u",
+    "μ": "u",
+}
+
+
+@lru_cache(maxsize=1)
+def registry():
+    """The workbook's single :class:`pint.UnitRegistry`, built on first use.
+
+    Adds ``gpm`` (US gallon per minute) and the customary ``cc`` if absent.
+    """
+    import pint
+
+    reg = pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
+    if "gpm" not in reg:
+        reg.define("gpm = gallon / minute")
+    if "cc" not in reg:
+        reg.define("cc = cm**3")
+    return reg
+
+
+@lru_cache(maxsize=64)
+def _dimensionality(dimension: str):
+    return registry().Quantity(1.0, INTERNAL_UNIT[dimension]).dimensionality
+
+
+def _check_dimension_name(dimension: str) -> None:
+    if dimension not in INTERNAL_UNIT:
+        raise KeyError(f"unknown dimension name {dimension!r}; known: {sorted(INTERNAL_UNIT)}")
+
+
+def _clean_unit(text: str) -> str:
+    for old, new in _ALIASES.items():
+        text = text.replace(old, new)
+    return text
+
+
+def _as_quantity(value: Any, dimension: str, field: str, default_unit: str | None):
+    """Turn text, a pint quantity or a number into a pint quantity (not yet converted)."""
+    reg = registry()
+    allowed = f"a {dimension.replace('_', ' ')} with a unit, e.g. {EXAMPLES[dimension]}"
+    if isinstance(value, reg.Quantity):
+        return value
+    if hasattr(value, "magnitude") and hasattr(value, "units"):
+        # a quantity from another pint registry: go through its text form
+        try:
+            return reg.Quantity(value.magnitude, str(value.units))
+        except Exception as exc:  # noqa: BLE001 - re-raised as InputError
+            raise InputError(field, value, allowed) from exc
+    if isinstance(value, bool):
+        raise InputError(field, value, allowed)
+    if isinstance(value, (int, float, np.floating, np.integer)):
+        if default_unit is None:
+            if dimension == "dimensionless":
+                return reg.Quantity(float(value), "dimensionless")
+            raise InputError(field, value, allowed + " (a bare number needs a unit here)")
+        return reg.Quantity(float(value), _clean_unit(default_unit))
+    if isinstance(value, np.ndarray):
+        unit = default_unit or ("dimensionless" if dimension == "dimensionless" else None)
+        if unit is None:
+            raise InputError(field, "an array without a unit", allowed)
+        return reg.Quantity(value.astype(float), _clean_unit(unit))
+    if isinstance(value, str):
+        text = value.strip()
+        if not text:
+            raise InputError(field, "an empty entry", allowed)
+        match = _NUMBER.match(text)
+        if match is None:
+            raise InputError(field, repr(value), allowed + " (start with a number)")
+        number = float(match.group(1))
+        unit = match.group(2)
+        if not unit:
+            if default_unit is None and dimension != "dimensionless":
+                raise InputError(field, repr(value), allowed + " (the unit is missing)")
+            unit = default_unit or "dimensionless"
+        unit = _clean_unit(unit)
+        try:
+            return reg.Quantity(number, unit)
+        except Exception as exc:  # noqa: BLE001 - pint raises several types
+            raise InputError(field, repr(value), allowed + f" ('{unit}' is not a unit known here)") from exc
+    raise InputError(field, f"a {type(value).__name__}", allowed)
+
+
+def to_si(value: Any, dimension: str, field: str = "value", default_unit: str | None = None):
+    """Convert ``value`` to the internal SI unit of ``dimension``.
+
+    Parameters
+    ----------
+    value : str, pint.Quantity, float or numpy.ndarray
+        ``"63 mm"``, ``Q_(63, "mm")``, or a bare number taken in ``default_unit``.
+    dimension : str
+        One of :data:`INTERNAL_UNIT`'s keys, e.g. ``"pressure"``.
+    field : str
+        Name of the input, used in error messages.
+    default_unit : str, optional
+        Unit of a bare number. Without it a bare number is refused (except dimensionless).
+
+    Returns
+    -------
+    float or numpy.ndarray
+        Value in the internal unit (Pa, m, m³/s, K, ...). Never NaN or infinite.
+
+    Raises
+    ------
+    InputError
+        Unknown unit, wrong dimension, NaN or infinite value; the message names ``field``.
+
+    >>> to_si("2.5 in", "length", field="bore")
+    0.0635
+    >>> to_si("5 bar", "length", field="rod")
+    Traceback (most recent call last):
+    ...
+    workbook.errors.InputError: rod: got '5 bar'; allowed: a length with a unit, e.g. 63 mm, 2.5 in (a pressure was given)
+    """
+    _check_dimension_name(dimension)
+    q = _as_quantity(value, dimension, field, default_unit)
+    target = INTERNAL_UNIT[dimension]
+    if q.dimensionality != _dimensionality(dimension):
+        given = _describe_dimension(q.dimensionality)
+        raise InputError(
+            field,
+            repr(value) if isinstance(value, str) else value,
+            f"a {dimension.replace('_', ' ')} with a unit, e.g. {EXAMPLES[dimension]} ({given} was given)",
+        )
+    magnitude = q.to(target).magnitude
+    arr = np.asarray(magnitude, dtype=float)
+    if not np.all(np.isfinite(arr)):
+        raise InputError(field, value, f"a finite {dimension.replace('_', ' ')} (not NaN or infinite)")
+    if arr.ndim == 0:
+        return float(arr)
+    return arr
+
+
+def from_si(value, dimension: str, unit: str):
+    """Convert an SI float (or array) of ``dimension`` to ``unit``.
+
+    >>> round(from_si(16e6, "pressure", "psi"), 1)
+    2320.6
+    >>> round(from_si(313.15, "temperature", "degC"), 2)
+    40.0
+    """
+    _check_dimension_name(dimension)
+    reg = registry()
+    q = reg.Quantity(np.asarray(value, dtype=float), INTERNAL_UNIT[dimension]).to(_clean_unit(unit))
+    mag = q.magnitude
+    return float(mag) if np.ndim(mag) == 0 else np.asarray(mag)
+
+
+def quantity(value, dimension: str, unit: str | None = None):
+    """A pint quantity of an SI value, optionally converted to ``unit``.
+
+    >>> str(quantity(0.063, "length", "mm"))
+    '63.0 millimeter'
+    """
+    _check_dimension_name(dimension)
+    q = registry().Quantity(value, INTERNAL_UNIT[dimension])
+    return q.to(_clean_unit(unit)) if unit else q
+
+
+def check_unit(unit: str, dimension: str) -> str:
+    """Return ``unit`` if it measures ``dimension``; raise :class:`KeyError` otherwise."""
+    _check_dimension_name(dimension)
+    q = registry().Quantity(1.0, _clean_unit(unit))
+    if q.dimensionality != _dimensionality(dimension):
+        raise KeyError(f"unit {unit!r} does not measure {dimension}")
+    return unit
+
+
+_DIM_WORDS = None
+
+
+def _describe_dimension(dimensionality) -> str:
+    global _DIM_WORDS
+    if _DIM_WORDS is None:
+        _DIM_WORDS = {}
+        for name in INTERNAL_UNIT:
+            if name in ("displacement",):
+                continue
+            _DIM_WORDS.setdefault(str(_dimensionality(name)), name.replace("_", " "))
+    word = _DIM_WORDS.get(str(dimensionality))
+    if word is None:
+        return f"a quantity of dimension {dimensionality}"
+    article = "an" if word[0] in "aeiou" else "a"
+    return f"{article} {word}"
+
+
+def format_value(si_value: float, dimension: str, unit: str, digits: int = 4) -> str:
+    """Format an SI value in ``unit`` with ``digits`` significant digits.
+
+    >>> format_value(16e6, "pressure", "bar")
+    '160 bar'
+    >>> format_value(6.6666e-4, "flow", "L/min")
+    '40 L/min'
+    """
+    v = from_si(si_value, dimension, unit)
+    if v == 0 or not math.isfinite(v):
+        text = f"{v:g}"
+    else:
+        text = f"{v:.{digits}g}"
+    return f"{text} {unit}".strip() if unit != "dimensionless" else text
+
+
+__all__ = [
+    "INTERNAL_UNIT",
+    "EXAMPLES",
+    "registry",
+    "to_si",
+    "from_si",
+    "quantity",
+    "check_unit",
+    "format_value",
+]
