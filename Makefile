@@ -21,7 +21,7 @@ lab: $(STAMP)
 	$(BIN)/jupyter lab --notebook-dir=notebooks --port=$(PORT) 1-restrictor-sizing.ipynb
 
 test: $(STAMP)
-	$(BIN)/python -m pytest workbook tests notebooks
+	$(BIN)/python -m pytest --nbval workbook tests notebooks
 
 test-fast: $(STAMP)
 	$(BIN)/python -m pytest workbook tests -m "not browser"
@@ -30,7 +30,7 @@ bench: $(STAMP)
 	$(BIN)/python benchmarks/run.py
 
 refresh-notebooks: $(STAMP)
-	$(BIN)/python -m workbook.tools.refresh_notebooks notebooks
+	$(BIN)/python -m workbook.tools.notebooks refresh notebooks
 
 clean-venv:
 	rm -rf $(VENV)

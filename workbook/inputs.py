@@ -11,6 +11,7 @@ Sections, in the order a design file lists them:
 ``operation``  load cases, friction, oil temperatures, tank back pressure, target speed
 ``ratings``    hose and valve pressure ratings, line bores
 ``limits``     the checks' defaults, each with its source, all overridable
+``study``      the studies' own settings (target flow and drop, sweep range, pilot ratios)
 
 Sources of defaults: ``"common practice"`` (facts of the trade without a citable
 source), ``"from memory"`` (a value recalled but not checked against a source at hand),
@@ -110,7 +111,7 @@ FLOW_VALVE = Section(
               help="sharp orifice, long throttle, needle throttle, or pressure-compensated flow valve"),
         Field("diameter", "Restrictor diameter", "length", "mm", 2.0, low=0, low_open=True, high=100,
               help="orifice or throttle bore", slider=(0.3, 10, 0.05)),
-        Field("length", "Throttle length", "length", "mm", 20, low=0, low_open=True, high=2000,
+        Field("length", "Throttle length", "length", "mm", 80, low=0, low_open=True, high=2000,
               help="length of a long throttle"),
         Field("cd", "Discharge coefficient (turbulent)", "dimensionless", "", 0.61, low=0.3, high=1.0,
               help="sharp-edged orifice, fully turbulent", source="Merritt (1967), from memory"),
@@ -218,10 +219,35 @@ LIMITS = Section(
     ),
 )
 
-#: every section, in design-file order
-SECTIONS: tuple[Section, ...] = (IDENTITY, CYLINDER, OIL, SUPPLY, FLOW_VALVE, HOLDING, OPERATION, RATINGS, LIMITS)
+STUDY = Section(
+    "study",
+    "Study settings",
+    (
+        Field("target_flow", "Target flow through the restrictor", "flow", "L/min", 12, low=0, low_open=True,
+              high=5000, help="flow the restrictor must pass at the available drop", source="demo scenario",
+              slider=(0.5, 60, 0.5)),
+        Field("available_drop", "Available pressure drop", "pressure", "bar", 20, low=0, low_open=True, high=1000,
+              help="pressure drop the restrictor may take at the target flow", source="demo scenario",
+              slider=(1, 200, 1)),
+        Field("design_temp", "Sizing temperature", "temperature", "degC", 40, low=-60, high=150,
+              help="oil temperature at which the restrictor is sized", source="demo scenario"),
+        Field("load_min", "Sweep load, lowest", "force", "kN", -5, low=-1e5, high=1e5,
+              help="lowest load of the speed-against-load sweep", source="demo scenario"),
+        Field("load_max", "Sweep load, highest", "force", "kN", 15, low=-1e5, high=1e5,
+              help="highest load of the speed-against-load sweep", source="demo scenario"),
+        Field("pilot_ratios", "Pilot ratios to compare", "quantity_list", "", [2, 3, 5, 8],
+              list_dimension="dimensionless", help="counterbalance pilot ratios shown side by side",
+              source="common practice (typical catalogue ratios, from memory)"),
+        Field("points", "Curve points", "dimensionless", "", 400, low=20, high=5000,
+              help="points per curve", source="common practice"),
+    ),
+)
 
-#: sections that describe an axis (all but identity)
+#: every section, in design-file order
+SECTIONS: tuple[Section, ...] = (IDENTITY, CYLINDER, OIL, SUPPLY, FLOW_VALVE, HOLDING, OPERATION, RATINGS, LIMITS,
+                                 STUDY)
+
+#: sections that describe an axis (all but identity); ``study`` holds the studies' own settings
 AXIS_SECTIONS: tuple[Section, ...] = SECTIONS[1:]
 
 BY_KEY = {s.key: s for s in SECTIONS}
@@ -233,4 +259,4 @@ def section(key: str) -> Section:
 
 
 __all__ = ["SECTIONS", "AXIS_SECTIONS", "BY_KEY", "section",
-           "IDENTITY", "CYLINDER", "OIL", "SUPPLY", "FLOW_VALVE", "HOLDING", "OPERATION", "RATINGS", "LIMITS"]
+           "STUDY", "IDENTITY", "CYLINDER", "OIL", "SUPPLY", "FLOW_VALVE", "HOLDING", "OPERATION", "RATINGS", "LIMITS"]

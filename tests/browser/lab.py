@@ -1,0 +1,622 @@
+"""Harness for driving a real JupyterLab in headless Chromium.
+
+This module holds everything the browser tests share that is not a pytest
+fixture: starting and stopping a loopback JupyterLab, recording what the
+browser did, and small page helpers (open a notebook, run it, wait for the
+kernel, type into a widget, take a screenshot).  Fixtures live in
+``conftest.py`` and wrap these.
+
+Study tests import from here, e.g.::
+
+    from lab import open_notebook, run_all_cells, type_into_field, screenshot
+"""
+
+from __future__ import annotations
+
+import json
+import os
+import secrets
+import shutil
+import signal
+import socket
+import subprocess
+import sys
+import tempfile
+import time
+import urllib.error
+import urllib.parse
+import urllib.request
+from dataclasses import dataclass, field
+from pathlib import Path
+
+HERE = Path(__file__).resolve().parent
+REPO_ROOT = HERE.parent.parent
+SCREENSHOT_DIR = REPO_ROOT / "screenshots"
+
+LOOPBACK_HOSTS = frozenset({"127.0.0.1", "localhost", "::1", "[::1]"})
+LOCAL_SCHEMES = frozenset({"data", "blob", "about", "chrome-error"})
+
+CHROMIUM_CANDIDATES = ("/usr/bin/chromium", "chromium", "chromium-browser")
+CHROMIUM_MISSING = (
+    "Chromium not found: install it with `apt-get install chromium` (Debian) "
+    "to run the browser tests"
+)
+CHROMIUM_ARGS = [
+    "--no-sandbox",
+    "--disable-gpu",
+    "--disable-background-networking",
+    "--disable-component-update",
+    "--disable-sync",
+    "--no-first-run",
+    "--disable-quic",
+    "--disable-default-apps",
+    "--disable-extensions",
+    "--disable-features=OptimizationHints,MediaRouter,Translate",
+    "--metrics-recording-only",
+    "--no-default-browser-check",
+    # Belt and braces: no host name other than localhost resolves at all.
+    "--host-resolver-rules=MAP * ~NOTFOUND , EXCLUDE localhost , EXCLUDE 127.0.0.1",
+]
+
+# JupyterLab plugins that would talk to the internet (or offer to).
+DISABLED_LAB_PLUGINS = {
+    "@jupyterlab/apputils-extension:announcements": True,
+    "@jupyterlab/extensionmanager-extension": True,
+}
+
+SERVER_START_TIMEOUT = 90.0
+DEFAULT_TIMEOUT_MS = 60_000
+
+
+def find_chromium() -> str | None:
+    """Path of a Chromium executable, or None.  WORKBOOK_CHROMIUM overrides."""
+    override = os.environ.get("WORKBOOK_CHROMIUM")
+    candidates = (override,) if override else CHROMIUM_CANDIDATES
+    for name in candidates:
+        if not name:
+            continue
+        if os.path.isabs(name):
+            if os.path.isfile(name) and os.access(name, os.X_OK):
+                return name
+        else:
+            found = shutil.which(name)
+            if found:
+                return found
+    return None
+
+
+def browser_required() -> bool:
+    return os.environ.get("WORKBOOK_REQUIRE_BROWSER", "") == "1"
+
+
+# --------------------------------------------------------------------------
+# JupyterLab server
+# --------------------------------------------------------------------------
+
+
+def free_port() -> int:
+    with socket.socket(socket.AF_INET, socket.SOCK_STREAM) as sock:
+        sock.bind(("127.0.0.1", 0))
+        return sock.getsockname()[1]
+
+
+@dataclass
+class LabServer:
+    """A running JupyterLab.  ``url`` ends with a slash."""
+
+    process: subprocess.Popen
+    url: str
+    token: str
+    root_dir: Path
+    base_dir: Path
+    log_path: Path
+    port: int
+
+    def lab_url(self, path: str = "") -> str:
+        return f"{self.url}lab/{path}?token={self.token}"
+
+    def notebook_url(self, name: str) -> str:
+        return self.lab_url("tree/" + urllib.parse.quote(name))
+
+    def api(self, path: str, method: str = "GET", timeout: float = 5.0):
+        req = urllib.request.Request(
+            self.url + path.lstrip("/"),
+            method=method,
+            headers={"Authorization": f"token {self.token}"},
+        )
+        with urllib.request.urlopen(req, timeout=timeout) as resp:
+            body = resp.read()
+        return json.loads(body) if body else None
+
+    def copy_notebook(self, source: str | os.PathLike, name: str | None = None) -> str:
+        """Copy a notebook (e.g. from notebooks/) into the server's root dir.
+
+        Returns the name to pass to ``open_notebook``.  The repository copy is
+        never touched by the browser.
+        """
+        source = Path(source)
+        name = name or source.name
+        target = self.root_dir / name
+        target.parent.mkdir(parents=True, exist_ok=True)
+        shutil.copy2(source, target)
+        return name
+
+    def write_notebook(self, nb, name: str) -> str:
+        """Write an nbformat notebook object into the root dir."""
+        import nbformat
+
+        target = self.root_dir / name
+        target.parent.mkdir(parents=True, exist_ok=True)
+        nbformat.write(nb, str(target))
+        return name
+
+    def log_tail(self, chars: int = 6000) -> str:
+        try:
+            return self.log_path.read_text(errors="replace")[-chars:]
+        except OSError:
+            return "<no server log>"
+
+    def shutdown_kernels(self) -> None:
+        try:
+            for kernel in self.api("api/kernels") or []:
+                try:
+                    self.api(f"api/kernels/{kernel['id']}", method="DELETE", timeout=10)
+                except Exception:
+                    pass
+        except Exception:
+            pass
+
+
+def _write_isolated_config(base: Path) -> dict[str, Path]:
+    """Config, settings, runtime dirs for one server, all under ``base``."""
+    dirs = {
+        name: base / name
+        for name in ("config", "runtime", "data", "ipython", "settings", "workspaces", "root")
+    }
+    for path in dirs.values():
+        path.mkdir(parents=True, exist_ok=True)
+
+    # Server-side: never fetch the news feed, never ask PyPI for a newer
+    # JupyterLab, never list extensions from PyPI.
+    server_config = {
+        "LabApp": {
+            "news_url": None,
+            "check_for_updates_class": "jupyterlab.NeverCheckForUpdate",
+            "extension_manager": "readonly",
+            "expose_app_in_browser": True,
+        }
+    }
+    (dirs["config"] / "jupyter_server_config.json").write_text(json.dumps(server_config, indent=1))
+
+    # Front end: switch off the plugins that would fetch or offer to.
+    labconfig = dirs["config"] / "labconfig"
+    labconfig.mkdir(exist_ok=True)
+    (labconfig / "page_config.json").write_text(
+        json.dumps({"disabledExtensions": DISABLED_LAB_PLUGINS}, indent=1)
+    )
+
+    # User settings: no news, no update check, no toast asking about them.
+    notification = dirs["settings"] / "@jupyterlab" / "apputils-extension"
+    notification.mkdir(parents=True, exist_ok=True)
+    (notification / "notification.jupyterlab-settings").write_text(
+        json.dumps({"fetchNews": "false", "checkForUpdates": False}, indent=1)
+    )
+    return dirs
+
+
+def start_lab_server(base_dir: str | os.PathLike | None = None) -> LabServer:
+    """Start JupyterLab on 127.0.0.1 with everything isolated under a temp dir.
+
+    The caller must call ``stop_lab_server`` (use try/finally).
+    """
+    base = Path(base_dir) if base_dir else Path(tempfile.mkdtemp(prefix="wb-lab-"))
+    dirs = _write_isolated_config(base)
+    port = free_port()
+    token = secrets.token_hex(24)
+
+    env = dict(os.environ)
+    env.update(
+        JUPYTER_CONFIG_DIR=str(dirs["config"]),
+        JUPYTER_RUNTIME_DIR=str(dirs["runtime"]),
+        # User-level data dir isolated; sys.prefix/share/jupyter (where the
+        # ipywidgets and jupyter_bokeh labextensions and the python3 kernel
+        # spec live) stays on the search path regardless.
+        JUPYTER_DATA_DIR=str(dirs["data"]),
+        IPYTHONDIR=str(dirs["ipython"]),
+        PYTHONPATH=os.pathsep.join(
+            p for p in (str(REPO_ROOT), env.get("PYTHONPATH", "")) if p
+        ),
+        PYDEVD_DISABLE_FILE_VALIDATION="1",
+    )
+    env.pop("JUPYTER_PATH", None)
+    env.pop("JUPYTERLAB_DIR", None)
+
+    cmd = [
+        sys.executable,
+        "-m",
+        "jupyterlab",
+        "--no-browser",
+        "--ServerApp.ip=127.0.0.1",
+        f"--ServerApp.port={port}",
+        "--ServerApp.port_retries=0",
+        f"--IdentityProvider.token={token}",
+        f"--ServerApp.root_dir={dirs['root']}",
+        "--ServerApp.terminals_enabled=False",
+        f"--LabApp.user_settings_dir={dirs['settings']}",
+        f"--LabApp.workspaces_dir={dirs['workspaces']}",
+        "--LabApp.check_for_updates_class=jupyterlab.NeverCheckForUpdate",
+        "--LabApp.extension_manager=readonly",
+        "--LabApp.expose_app_in_browser=True",
+    ]
+    if hasattr(os, "geteuid") and os.geteuid() == 0:
+        cmd.append("--ServerApp.allow_root=True")
+
+    log_path = base / "server.log"
+    log = open(log_path, "wb")
+    try:
+        proc = subprocess.Popen(
+            cmd,
+            cwd=str(dirs["root"]),
+            env=env,
+            stdin=subprocess.DEVNULL,
+            stdout=log,
+            stderr=subprocess.STDOUT,
+            start_new_session=True,
+        )
+    finally:
+        log.close()
+
+    server = LabServer(
+        process=proc,
+        url=f"http://127.0.0.1:{port}/",
+        token=token,
+        root_dir=dirs["root"],
+        base_dir=base,
+        log_path=log_path,
+        port=port,
+    )
+    try:
+        _wait_until_up(server, SERVER_START_TIMEOUT)
+    except BaseException:
+        stop_lab_server(server)
+        raise
+    return server
+
+
+def _wait_until_up(server: LabServer, timeout: float) -> None:
+    deadline = time.monotonic() + timeout
+    last_error: Exception | None = None
+    while time.monotonic() < deadline:
+        if server.process.poll() is not None:
+            raise RuntimeError(
+                f"JupyterLab exited with code {server.process.returncode} during start-up.\n"
+                f"--- server log ---\n{server.log_tail()}"
+            )
+        try:
+            status = server.api("api/status", timeout=2)
+            if isinstance(status, dict) and "started" in status:
+                return
+        except (urllib.error.URLError, ConnectionError, OSError, ValueError) as exc:
+            last_error = exc
+        time.sleep(0.25)
+    raise TimeoutError(
+        f"JupyterLab did not answer /api/status within {timeout:.0f} s "
+        f"(last error: {last_error!r}).\n--- server log ---\n{server.log_tail()}"
+    )
+
+
+def _signal_group(proc: subprocess.Popen, sig: int) -> None:
+    try:
+        os.killpg(proc.pid, sig)  # the server leads its own session/group
+    except (ProcessLookupError, PermissionError):
+        try:
+            proc.send_signal(sig)
+        except ProcessLookupError:
+            pass
+
+
+def stop_lab_server(server: LabServer, grace: float = 10.0) -> None:
+    """Stop the server and its process group: kernels down, TERM, then KILL."""
+    proc = server.process
+    try:
+        if proc.poll() is None:
+            server.shutdown_kernels()
+            _signal_group(proc, signal.SIGTERM)
+            try:
+                proc.wait(timeout=grace)
+            except subprocess.TimeoutExpired:
+                pass
+    finally:
+        # Whatever is left in the group (the server, stray children) dies now.
+        _signal_group(proc, signal.SIGKILL)
+        try:
+            proc.wait(timeout=5)
+        except subprocess.TimeoutExpired:
+            pass
+
+
+# --------------------------------------------------------------------------
+# What the browser did
+# --------------------------------------------------------------------------
+
+
+def is_loopback_url(url: str) -> bool:
+    parsed = urllib.parse.urlsplit(url)
+    if parsed.scheme in LOCAL_SCHEMES:
+        return True
+    if parsed.scheme in ("http", "https", "ws", "wss"):
+        return (parsed.hostname or "") in LOOPBACK_HOSTS
+    return False
+
+
+def assert_offline(requests) -> None:
+    """Fail if any recorded URL left loopback (data:, blob: are fine)."""
+    urls = [getattr(r, "url", r) for r in requests]
+    off = [u for u in urls if not is_loopback_url(u)]
+    assert not off, "browser requested hosts other than loopback:\n  " + "\n  ".join(
+        sorted(set(off))
+    )
+
+
+@dataclass
+class BrowserLog:
+    """Everything one page did: requests, failures, console, page errors."""
+
+    requests: list[str] = field(default_factory=list)
+    blocked: list[str] = field(default_factory=list)
+    failed_requests: list[str] = field(default_factory=list)
+    http_errors: list[str] = field(default_factory=list)
+    console: list[tuple[str, str]] = field(default_factory=list)
+    page_errors: list[str] = field(default_factory=list)
+
+    def attach(self, context, page) -> None:
+        context.on("request", lambda r: self.requests.append(r.url))
+        context.on(
+            "requestfailed",
+            lambda r: self.failed_requests.append(f"{r.method} {r.url}: {r.failure}"),
+        )
+        context.on("response", self._on_response)
+        page.on("websocket", lambda ws: self.requests.append(ws.url))
+        page.on("console", lambda m: self.console.append((m.type, m.text)))
+        page.on("pageerror", lambda e: self.page_errors.append(str(e)))
+
+    def _on_response(self, response) -> None:
+        if response.status >= 400:
+            self.http_errors.append(f"{response.status} {response.request.method} {response.url}")
+
+    def console_errors(self) -> list[str]:
+        return [text for kind, text in self.console if kind == "error"]
+
+    def console_warnings(self) -> list[str]:
+        return [text for kind, text in self.console if kind == "warning"]
+
+    def assert_offline(self) -> None:
+        assert_offline(self.requests + self.blocked)
+
+    def assert_no_console_errors(self) -> None:
+        errors = self.console_errors()
+        assert not errors, "console errors:\n  " + "\n  ".join(errors)
+
+    def assert_no_page_errors(self) -> None:
+        assert not self.page_errors, "uncaught page errors:\n  " + "\n  ".join(self.page_errors)
+
+    def assert_no_failed_requests(self) -> None:
+        bad = self.failed_requests + self.http_errors
+        assert not bad, "failed requests:\n  " + "\n  ".join(bad)
+
+    def assert_clean(self) -> None:
+        """Offline, no console error, no page error, no failed request."""
+        self.assert_offline()
+        self.assert_no_page_errors()
+        self.assert_no_console_errors()
+        self.assert_no_failed_requests()
+
+
+def guard_offline(context, log: BrowserLog) -> None:
+    """Abort every request that would leave loopback, and remember it."""
+
+    def handler(route):
+        url = route.request.url
+        if is_loopback_url(url):
+            route.continue_()
+        else:
+            log.blocked.append(url)
+            route.abort("blockedbyclient")
+
+    context.route("**/*", handler)
+
+
+# --------------------------------------------------------------------------
+# Page helpers
+# --------------------------------------------------------------------------
+
+_JS_PANEL = """
+() => {
+  const app = window.jupyterapp;
+  if (!app) return null;
+  const w = app.shell.currentWidget;
+  return (w && w.sessionContext && w.content && w.content.model) ? w : null;
+}
+"""
+
+_JS_STATE = (
+    "() => { const w = ("
+    + _JS_PANEL
+    + """)();
+  if (!w) return {ready: false};
+  const s = w.sessionContext;
+  const k = s.session && s.session.kernel;
+  const busyPrompts = Array.from(
+    w.node.querySelectorAll('.jp-InputPrompt')).filter(p => p.textContent.includes('[*]')).length;
+  return {
+    ready: !!(s.isReady && k),
+    kernel: k ? k.status : null,
+    connection: k ? k.connectionStatus : null,
+    busyPrompts,
+    pending: s.pendingInput || false,
+  };
+}"""
+)
+
+_JS_OUTPUT_ERRORS = (
+    "() => { const w = ("
+    + _JS_PANEL
+    + """)();
+  if (!w) return [];
+  const found = [];
+  const cells = w.content.model.cells;
+  for (let i = 0; i < cells.length; i++) {
+    const cell = cells.get(i);
+    if (cell.type !== 'code') continue;
+    const outs = cell.outputs.toJSON();
+    for (const o of outs) {
+      if (o.output_type === 'error') {
+        found.push({cell: i, ename: o.ename, evalue: o.evalue});
+      }
+    }
+  }
+  return found;
+}"""
+)
+
+
+def _app_ready(page, timeout_ms: int) -> None:
+    page.wait_for_function(
+        "() => window.jupyterapp && window.jupyterapp.started !== undefined", timeout=timeout_ms
+    )
+    page.evaluate("() => window.jupyterapp.restored")
+
+
+def open_notebook(page, server: LabServer, name: str, timeout_ms: int = DEFAULT_TIMEOUT_MS) -> None:
+    """Open ``name`` (relative to the server root) and wait for an idle kernel."""
+    page.goto(server.notebook_url(name), wait_until="domcontentloaded", timeout=timeout_ms)
+    _app_ready(page, timeout_ms)
+    page.locator(".jp-NotebookPanel .jp-Notebook").first.wait_for(
+        state="visible", timeout=timeout_ms
+    )
+    page.wait_for_function(
+        "(name) => { const w = window.jupyterapp.shell.currentWidget;"
+        " return !!(w && w.context && w.context.path === name); }",
+        arg=name,
+        timeout=timeout_ms,
+    )
+    wait_for_idle(page, timeout_ms=timeout_ms)
+
+
+def wait_for_idle(page, timeout_ms: int = DEFAULT_TIMEOUT_MS, settle_ms: int = 300) -> None:
+    """Wait until the kernel is connected and idle and no cell shows ``[*]``.
+
+    The condition must hold twice, ``settle_ms`` apart, so that a queue of
+    cells between two executions is not mistaken for the end of the run.
+    """
+    deadline = time.monotonic() + timeout_ms / 1000
+    stable_since = None
+    last = None
+    while time.monotonic() < deadline:
+        last = page.evaluate(_JS_STATE)
+        idle = (
+            last.get("ready")
+            and last.get("kernel") == "idle"
+            and last.get("connection") == "connected"
+            and last.get("busyPrompts") == 0
+        )
+        if idle:
+            if stable_since is None:
+                stable_since = time.monotonic()
+            elif (time.monotonic() - stable_since) * 1000 >= settle_ms:
+                return
+        else:
+            stable_since = None
+        page.wait_for_timeout(100)
+    raise TimeoutError(f"notebook did not become idle within {timeout_ms} ms; last state {last}")
+
+
+def run_all_cells(page, via: str = "command", timeout_ms: int = 180_000) -> None:
+    """Run every cell of the current notebook and wait until all have run.
+
+    ``via="command"`` executes the ``notebook:run-all-cells`` command;
+    ``via="menu"`` clicks Run > Run All Cells like a user would.
+    Raises AssertionError if a cell produced an error output.
+    """
+    wait_for_idle(page)
+    if via == "menu":
+        page.locator(".lm-MenuBar-itemLabel", has_text="Run").first.click()
+        page.locator(".lm-Menu-itemLabel", has_text="Run All Cells").first.click()
+    elif via == "command":
+        page.evaluate("() => window.jupyterapp.commands.execute('notebook:run-all-cells')")
+    else:
+        raise ValueError(f"unknown via={via!r}")
+    # Wait for execution to start (a prompt turns into [*] or the kernel goes busy)
+    # or, for fast notebooks, for every code cell to have an execution count.
+    page.wait_for_function(
+        "() => { const w = window.jupyterapp.shell.currentWidget;"
+        " const k = w.sessionContext.session.kernel;"
+        " if (k.status === 'busy') return true;"
+        " const cells = w.content.model.cells; let n = 0;"
+        " for (let i = 0; i < cells.length; i++) { const c = cells.get(i);"
+        "   if (c.type === 'code' && c.sharedModel.source.trim() && !c.executionCount) n++; }"
+        " return n === 0; }",
+        timeout=30_000,
+    )
+    wait_for_idle(page, timeout_ms=timeout_ms, settle_ms=500)
+    assert_no_cell_errors(page)
+
+
+def cell_errors(page) -> list[dict]:
+    """Error outputs (ename, evalue, cell index) of the current notebook."""
+    return page.evaluate(_JS_OUTPUT_ERRORS)
+
+
+def assert_no_cell_errors(page) -> None:
+    errors = cell_errors(page)
+    assert not errors, "cells raised:\n  " + "\n  ".join(
+        f"cell {e['cell']}: {e['ename']}: {e['evalue']}" for e in errors
+    )
+
+
+def widget(page, css_class: str):
+    """Locator for the widget carrying ``css_class`` (see ``add_class``)."""
+    return page.locator(f".{css_class.lstrip('.')}").first
+
+
+def _looks_like_selector(text: str) -> bool:
+    return text[:1] in ".#[" or any(ch in text for ch in "[]>:=")
+
+
+def field_input(page, label_or_selector: str):
+    """Locator for the <input>/<textarea> of an ipywidgets text-like field.
+
+    Accepts a CSS selector (``.wb-field-bore``), a bare class name
+    starting with ``wb-`` or the widget's description label text.
+    """
+    key = label_or_selector
+    if key.startswith("wb-"):
+        key = "." + key
+    if _looks_like_selector(key):
+        host = page.locator(key).first
+    else:
+        host = page.locator(
+            ".jupyter-widgets.widget-inline-hbox",
+            has=page.locator("label.widget-label", has_text=key),
+        ).first
+    inner = host.locator("input, textarea")
+    tag = host.evaluate("el => el.tagName.toLowerCase()")
+    return host if tag in ("input", "textarea") else inner.first
+
+
+def type_into_field(page, label_or_selector: str, text: str, press_enter: bool = True) -> None:
+    """Replace the text of an ipywidgets Text/FloatText field and press Enter."""
+    box = field_input(page, label_or_selector)
+    box.wait_for(state="visible")
+    box.fill(text)
+    if press_enter:
+        box.press("Enter")
+
+
+def screenshot(page, name: str, locator=None) -> Path:
+    """Save a PNG to <repo>/screenshots/<name>.png and return its path."""
+    SCREENSHOT_DIR.mkdir(parents=True, exist_ok=True)
+    safe = "".join(ch if ch.isalnum() or ch in "-_." else "_" for ch in name)
+    path = SCREENSHOT_DIR / (safe if safe.endswith(".png") else safe + ".png")
+    (locator or page).screenshot(path=str(path))
+    return path

@@ -1,0 +1,807 @@
+"""Steady-state solution of one cylinder axis: meter-in, meter-out or bleed-off, each with or
+without a load-holding valve, in both directions of motion, over arrays of loads and oil
+temperatures at once.
+
+Circuit model
+-------------
+A fixed pump feeds the axis; whatever the axis does not take crosses the relief valve. The
+directional valve is ideal (no drop). Per direction of motion the *driving* chamber takes
+oil in (cap when extending, rod when retracting) and the *driven* chamber pushes oil out.
+
+* **meter-in**: the flow valve sits in the line of the chamber that drives the controlled
+  motion, forward towards the cylinder.
+* **meter-out**: it sits in the line of the chamber that is driven in the controlled motion,
+  forward from the cylinder to tank.
+* **bleed-off**: it tees off the line to the driving chamber of the controlled motion and
+  bleeds to tank; the cylinder gets the remainder of the pump flow.
+* In the **other direction** the flow valve passes oil in reverse through its free-flow
+  check (meter-in / meter-out); a bleed-off valve then sits in the return, in parallel with
+  the return path to tank, and does not meter (its effect is neglected).
+* The **holding valve** (counterbalance or back-pressure) is mounted at the port of its
+  load-holding chamber (``holding_side``) and restrains the outflow of that chamber; oil
+  flows in through its check. Order on a return line: cylinder, holding valve, flow valve,
+  tank (at ``tank_pressure``). The counterbalance pilot is the opposite chamber.
+
+Equations (gauge pressures; ``s`` = +1 extending, -1 retracting; ``A_d``, ``A_o`` driving
+and driven areas; ``p_d``, ``p_o`` their pressures; ``F`` the load, positive pushing the rod
+in; ``F_fr`` running friction, opposing motion)::
+
+    p_d A_d - p_o A_o = s F + F_fr                 (DEVELOPERS.md force balance)
+    Q_in  = A_d v,  Q_out = A_o v                   (continuity)
+    Q_pump = Q_in + Q_bleed + Q_relief              (fixed pump)
+
+The speed ``v`` is found by a vectorised bracketing solve (regula falsi with the Illinois
+modification and forced bisection steps, on all points at once, no per-point call) of
+one monotone residual in flow per arrangement. At standstill (``v = 0``: stalled, held, or
+valve closed) friction is taken as zero: static friction may take any value up to
+breakaway, and zero gives the highest trapped pressure, the conservative choice for ratings.
+
+Pressures are never returned below the cavitation limit ``cavitation_abs - P_ATM`` (gauge);
+where the force balance would ask for less, the chamber is clamped there, the point is
+flagged, and ``unbalanced_force`` records the force the clamped pressures leave unbalanced.
+
+Regime labels (:data:`REGIMES`):
+
+===================  =========================================================================
+``metering``          the flow valve sets the speed; the pump's surplus crosses the relief
+``compensator starved`` a compensated valve has less than its minimum working drop and acts
+                      as a fixed orifice: the flow falls below its setting
+``pump-limited``      all pump flow reaches the cylinder, relief closed; the flow valve (if
+                      any) is not limiting the speed
+``relief bypassing``  the load pressure has opened the relief: part of the pump flow is lost
+                      over it and the speed falls below pump speed (not set by a flow valve)
+``stalled``           no motion: the supply at relief full-flow pressure cannot move the load
+``held``              no motion: the holding valve stays closed and the load stands on it
+``valve closed``      no motion: the flow valve's opening is 0 (meter-in / meter-out)
+``running away``      an overrunning load would pull the driving chamber below the
+                      cavitation limit: the load is not restrained, there is no steady state;
+                      the speed reported is the speed the oil supply alone fills (a lower
+                      bound) and the driving chamber is clamped
+``cavitating``        a chamber is clamped at the cavitation limit but a steady state exists
+                      (meter-out: the load outruns the pump and the valve sets the speed)
+===================  =========================================================================
+
+Worked example (checked by hand): an 80/45 cylinder extending against 20 kN with a
+12 L/min compensated meter-out valve in the rod line, 21.6 L/min pump, relief 160/172 bar.
+The valve holds 12 L/min out of the annulus (A3 = 34.361 cm²): v = 2e-4/3.4361e-3 =
+0.05820 m/s; cap inflow 0.05820 × 50.265e-4 = 17.55 L/min, relief 21.6 - 17.55 = 4.05 L/min,
+pump pressure 160 + 12 × 4.05/21.6 = 162.25 bar; droop 2 % per 100 bar over the drop above
+8 bar makes the flow 1.5 % higher, which the solver includes:
+
+>>> from workbook.cylinder import Cylinder
+>>> from workbook.fluid import Oil
+>>> from workbook.supply import Supply, Pump, ReliefValve
+>>> from workbook.valve import CompensatedFlowValve
+>>> oil = Oil.from_grade("VG46")
+>>> valve = CompensatedFlowValve.from_setting(12 / 60000, float(oil.density(313.15)), droop=0.0)
+>>> axis = Axis(Cylinder(0.080, 0.045, 0.6, 210e5), oil,
+...             Supply(Pump(21.6 / 60000), ReliefValve(160e5, 172e5, 21.6 / 60000)), valve,
+...             arrangement="meter-out", controlled="extend")
+>>> sol = solve(axis, 20e3, 313.15)
+>>> round(float(sol.speed), 5), str(sol.regime), round(float(sol.p_pump) / 1e5, 2)
+(0.0582, 'metering', 162.25)
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field, fields
+from typing import Any, Callable, Mapping
+
+import numpy as np
+
+from .cylinder import Cylinder
+from .errors import InputError
+from .fluid import P_ATM, Oil
+from .supply import Supply
+from .valve import (BackPressureValve, CheckValve, CompensatedFlowValve, CounterbalanceValve, RestrictorValve,
+                    check_opening)
+
+_BAR = 1e5
+_LPM = 1.0 / 60000.0
+
+ARRANGEMENTS = ("meter-in", "meter-out", "bleed-off")
+DIRECTIONS = ("extend", "retract")
+SIDES = ("cap", "rod")
+
+METERING = "metering"
+STARVED = "compensator starved"
+PUMP_LIMITED = "pump-limited"
+RELIEF = "relief bypassing"
+STALLED = "stalled"
+HELD = "held"
+CLOSED = "valve closed"
+RUNAWAY = "running away"
+CAVITATING = "cavitating"
+#: every regime label a Solution can carry
+REGIMES = (METERING, STARVED, PUMP_LIMITED, RELIEF, STALLED, HELD, CLOSED, RUNAWAY, CAVITATING)
+
+#: default lowest absolute chamber pressure, Pa abs (from memory; limits.cavitation_abs)
+CAVITATION_ABS_DEFAULT = 0.3 * _BAR
+
+
+@dataclass(frozen=True)
+class Ratings:
+    """Hose and valve pressure ratings (Pa) and line bores (m) of the ``ratings`` section."""
+
+    hose_rating: float = 250 * _BAR
+    valve_rating: float = 315 * _BAR
+    pressure_line_bore: float = 0.010
+    return_line_bore: float = 0.012
+    suction_line_bore: float = 0.025
+
+    @classmethod
+    def from_values(cls, values: Mapping) -> "Ratings":
+        return cls(**{f.name: float(values[f.name]) for f in fields(cls) if values.get(f.name) is not None})
+
+
+@dataclass(frozen=True)
+class Axis:
+    """One cylinder axis, everything in SI (see the module text for the circuit).
+
+    ``loads`` are the design load cases (N, positive pushing the rod in); ``temp_min`` and
+    ``temp_max`` the oil temperature range (K); ``target_speed`` (m/s) and
+    ``speed_tolerance`` (fraction) apply to the ``controlled`` motion.
+    """
+
+    cylinder: Cylinder
+    oil: Oil
+    supply: Supply
+    flow_valve: Any
+    arrangement: str = "meter-out"
+    controlled: str = "retract"
+    holding: Any = None
+    holding_side: str = "cap"
+    friction: float = 0.0
+    tank_pressure: float = 0.0
+    loads: tuple = (0.0,)
+    temp_min: float = 313.15
+    temp_max: float = 313.15
+    target_speed: float | None = None
+    speed_tolerance: float = 0.15
+    mass: float = 0.0
+    ratings: Ratings = field(default_factory=Ratings)
+    cavitation_abs: float = CAVITATION_ABS_DEFAULT
+
+    def __post_init__(self):
+        if self.arrangement not in ARRANGEMENTS:
+            raise InputError("arrangement", repr(self.arrangement), "one of " + ", ".join(map(repr, ARRANGEMENTS)))
+        if self.controlled not in DIRECTIONS:
+            raise InputError("direction", repr(self.controlled), "one of 'extend', 'retract'")
+        if self.holding_side not in SIDES:
+            raise InputError("side", repr(self.holding_side), "one of 'cap', 'rod'")
+        for name in ("friction", "tank_pressure"):
+            v = getattr(self, name)
+            if not (math.isfinite(v) and v >= 0):
+                raise InputError(name, v, "a finite value of at least 0")
+        if not (math.isfinite(self.cavitation_abs) and 0.0 <= self.cavitation_abs < P_ATM):
+            raise InputError("cavitation_abs", self.cavitation_abs, "an absolute pressure from 0 to 1 atm")
+        loads = tuple(float(x) for x in np.atleast_1d(np.asarray(self.loads, dtype=float)))
+        if not loads or not all(math.isfinite(x) for x in loads):
+            raise InputError("loads", self.loads, "a list of finite forces")
+        object.__setattr__(self, "loads", loads)
+        if self.temp_max < self.temp_min:
+            raise InputError("temp_max", f"{self.temp_max - 273.15:g} degC",
+                             f"a temperature at least the cold temperature ({self.temp_min - 273.15:g} degC)")
+        self.oil.check_temperature(self.temp_min, "temp_min")
+        self.oil.check_temperature(self.temp_max, "temp_max")
+        if self.tank_pressure >= self.supply.relief.cracking:
+            raise InputError("tank_pressure", f"{self.tank_pressure / _BAR:g} bar",
+                             f"a back pressure below the relief cracking pressure "
+                             f"({self.supply.relief.cracking / _BAR:g} bar)")
+
+    @property
+    def cavitation_gauge(self) -> float:
+        """The cavitation limit as a gauge pressure, Pa (negative)."""
+        return self.cavitation_abs - P_ATM
+
+    def valve_side(self) -> str | None:
+        """Chamber whose line holds the flow valve (None for bleed-off)."""
+        if self.arrangement == "bleed-off":
+            return None
+        ext = self.controlled == "extend"
+        if self.arrangement == "meter-in":
+            return "cap" if ext else "rod"
+        return "rod" if ext else "cap"
+
+    def holding_pressure(self, load=None):
+        """Load-induced pressure in the holding chamber, Pa: the load that the holding side
+        carries over its area (cap: ``F/A1`` for F > 0; rod: ``-F/A3`` for F < 0)."""
+        f = np.asarray(self.loads if load is None else load, dtype=float)
+        if self.holding_side == "cap":
+            return np.maximum(f, 0.0) / self.cylinder.a1
+        return np.maximum(-f, 0.0) / self.cylinder.a3
+
+
+# --------------------------------------------------------------------------- Solution
+@dataclass(frozen=True, eq=False)
+class Solution:
+    """Steady state at every point (numpy arrays broadcast from ``load`` and ``temperature``).
+
+    ``speed`` is the magnitude (m/s, >= 0) in ``direction``; ``velocity`` is signed
+    (positive extending). Flows are m³/s, pressures Pa gauge, powers W. Valve flows and
+    drops follow the valve's own sign (forward positive, reverse through its check
+    negative). ``q_void`` is the rate (m³/s) at which a cavitating driving chamber's volume
+    grows faster than oil fills it. ``p1_demand`` / ``p3_demand`` are the pressures the
+    force balance asked of each chamber before clamping (may be below absolute zero; for
+    checks only).
+    """
+
+    direction: str
+    arrangement: str
+    controlled: bool
+    opening: float
+    load: np.ndarray
+    temperature: np.ndarray
+    speed: np.ndarray
+    p1: np.ndarray
+    p3: np.ndarray
+    p_pump: np.ndarray
+    p_mid: np.ndarray
+    p_pilot: np.ndarray
+    q_pump: np.ndarray
+    q_relief: np.ndarray
+    q_bleed: np.ndarray
+    q_cylinder_in: np.ndarray
+    q_cylinder_out: np.ndarray
+    q_void: np.ndarray
+    q_flow_valve: np.ndarray
+    dp_flow_valve: np.ndarray
+    q_holding: np.ndarray
+    dp_holding: np.ndarray
+    friction_force: np.ndarray
+    unbalanced_force: np.ndarray
+    p1_demand: np.ndarray
+    p3_demand: np.ndarray
+    useful_power: np.ndarray
+    friction_power: np.ndarray
+    input_power: np.ndarray
+    loss_flow_valve: np.ndarray
+    loss_holding: np.ndarray
+    loss_relief: np.ndarray
+    loss_return_line: np.ndarray
+    efficiency: np.ndarray
+    regime: np.ndarray
+
+    @property
+    def velocity(self) -> np.ndarray:
+        """Signed speed, m/s: positive extending, negative retracting."""
+        return self.speed if self.direction == "extend" else -self.speed
+
+    @property
+    def loss_total(self) -> np.ndarray:
+        """Heat from throttling: flow valve, holding valve, relief and return line, W."""
+        return self.loss_flow_valve + self.loss_holding + self.loss_relief + self.loss_return_line
+
+    @property
+    def q_valve(self) -> np.ndarray:
+        """Alias of ``q_flow_valve``."""
+        return self.q_flow_valve
+
+
+# --------------------------------------------------------------------------- root finding
+def solve_increasing(fun: Callable[[np.ndarray], np.ndarray], lo, hi, xtol, ftol, maxiter: int = 200):
+    """Vectorised root of an increasing function with ``fun(lo) <= 0 <= fun(hi)``.
+
+    Regula falsi with the Illinois modification and a forced bisection every third
+    iteration (so the bracket at least halves every three steps); stops when every point
+    has ``|f| <= ftol`` or a bracket narrower than ``xtol``. All points are evaluated at
+    once; no per-point call.
+
+    >>> r = solve_increasing(lambda x: x**3 - np.array([8.0, 27.0]), np.zeros(2), np.full(2, 10.0), 1e-14, 1e-12)
+    >>> np.round(r, 12).tolist()
+    [2.0, 3.0]
+    """
+    a = np.array(lo, dtype=float, copy=True)
+    b = np.array(hi, dtype=float, copy=True)
+    fa = fun(a)
+    fb = fun(b)
+    x = np.where(fa >= 0.0, a, b)
+    done = (fa >= 0.0) | (fb <= 0.0) | (b - a <= xtol)
+    x = np.where(fa >= 0.0, a, np.where(fb <= 0.0, b, 0.5 * (a + b)))
+    last = np.zeros(a.shape, dtype=np.int8)
+    for it in range(maxiter):
+        if done.all():
+            break
+        if it % 3 == 2:
+            xn = 0.5 * (a + b)
+        else:
+            denom = fb - fa
+            with np.errstate(divide="ignore", invalid="ignore"):
+                xn = np.where(denom > 0.0, a - fa * (b - a) / np.where(denom > 0.0, denom, 1.0), 0.5 * (a + b))
+            bad = ~np.isfinite(xn) | (xn <= a) | (xn >= b)
+            xn = np.where(bad, 0.5 * (a + b), xn)
+        fx = fun(xn)
+        x = np.where(done, x, xn)
+        right = fx < 0.0                     # root lies right of xn
+        upd_a = ~done & right
+        upd_b = ~done & ~right
+        # Illinois: halve the stale end's value when the same end moves twice running
+        fb = np.where(upd_a & (last == 1), 0.5 * fb, fb)
+        fa = np.where(upd_b & (last == -1), 0.5 * fa, fa)
+        a = np.where(upd_a, xn, a)
+        fa = np.where(upd_a, fx, fa)
+        b = np.where(upd_b, xn, b)
+        fb = np.where(upd_b, fx, fb)
+        last = np.where(upd_a, 1, np.where(upd_b, -1, last)).astype(np.int8)
+        done = done | (np.abs(fx) <= ftol) | (b - a <= xtol)
+    return x
+
+
+# --------------------------------------------------------------------------- helpers
+def _check_drop(check: CheckValve | None, q):
+    if check is None:
+        return np.zeros_like(np.asarray(q, dtype=float))
+    return check.pressure_drop(q)
+
+
+@dataclass(frozen=True)
+class _Layout:
+    """Where each element sits for one direction of motion (internal)."""
+
+    s: float
+    a_d: float
+    a_o: float
+    driving: str
+    controlled: bool
+    kind: str                 # "free", "meter-in", "meter-out", "bleed-off"
+    fv_check_supply: bool     # flow valve's reverse check in the supply path
+    fv_check_return: bool     # ... in the return path
+    hold_driven: bool         # holding valve restrains the driven chamber's outflow
+    hold_driving: bool        # holding valve's check in the supply path
+
+
+def _layout(axis: Axis, direction: str) -> _Layout:
+    cyl = axis.cylinder
+    ext = direction == "extend"
+    driving = "cap" if ext else "rod"
+    controlled = direction == axis.controlled
+    vside = axis.valve_side()
+    kind = axis.arrangement if controlled else "free"
+    fv_sup = (not controlled) and vside == driving
+    fv_ret = (not controlled) and vside is not None and vside != driving
+    hold = axis.holding is not None
+    return _Layout(1.0 if ext else -1.0, cyl.a1 if ext else cyl.a3, cyl.a3 if ext else cyl.a1, driving,
+                   controlled, kind, fv_sup, fv_ret,
+                   hold and axis.holding_side != driving, hold and axis.holding_side == driving)
+
+
+class _Model:
+    """The equations of one axis, one direction, at fixed load and oil state (internal)."""
+
+    def __init__(self, axis: Axis, lay: _Layout, f_res, rho, mu, opening: float):
+        self.ax, self.lay, self.f_res, self.rho, self.mu, self.o = axis, lay, f_res, rho, mu, opening
+        self.pt = axis.tank_pressure
+        self.qp = axis.supply.flow
+        self.relief = axis.supply.relief
+        self.fv = axis.flow_valve
+        self.hold = axis.holding
+        self.pcav = axis.cavitation_gauge
+        self.v_max = self.qp / lay.a_d
+
+    # supply-path drop between the pump line (or meter-in outlet / bleed tee) and p_d
+    def dp_supply(self, q_in):
+        d = np.zeros_like(q_in)
+        if self.lay.fv_check_supply:
+            d = d + _check_drop(self.fv.check, q_in)
+        if self.lay.hold_driving:
+            d = d + _check_drop(self.hold.check, q_in)
+        return d
+
+    def p_mid_return(self, q_out):
+        """Pressure at the holding valve's outlet (flow valve inlet) on a return line that the
+        flow valve does not meter."""
+        p = self.pt + np.zeros_like(q_out)
+        if self.lay.fv_check_return:
+            p = p + _check_drop(self.fv.check, q_out)
+        return p
+
+    def chambers_from_return(self, q_out, p_m, f_res):
+        """Driving and driven pressures from the return side and the force balance."""
+        a_d, a_o = self.lay.a_d, self.lay.a_o
+        if self.lay.hold_driven and isinstance(self.hold, CounterbalanceValve):
+            r, g = self.hold.pilot_ratio, self.hold.gradient
+            c = p_m + self.hold.setting + g * q_out
+            p_d = (f_res + c * a_o) / (a_d + r * a_o)
+            p_o = c - r * p_d
+            wide = p_o < p_m                              # pilot alone holds it fully open
+            p_d_w = (f_res + p_m * a_o) / a_d
+            return np.where(wide, p_d_w, p_d), np.where(wide, p_m, p_o)
+        if self.lay.hold_driven:                          # back-pressure valve
+            p_o = self.hold.inlet_pressure(q_out, p_m)
+        else:
+            p_o = p_m
+        return (f_res + p_o * a_o) / a_d, p_o
+
+    def mid_from_chambers(self, q_out, p_d, p_o):
+        """Holding valve outlet pressure from the chamber pressures (metered return line)."""
+        if self.lay.hold_driven and isinstance(self.hold, CounterbalanceValve):
+            x = p_o + self.hold.pilot_ratio * p_d - self.hold.setting - self.hold.gradient * q_out
+            return np.minimum(x, p_o)
+        if self.lay.hold_driven:
+            return p_o - self.hold.setting - self.hold.gradient * q_out
+        return p_o
+
+    def fv_forward(self, dp):
+        return self.fv.forward_flow(dp, self.rho, self.mu, self.o)
+
+    def q_bleed(self, dp):
+        if self.lay.kind != "bleed-off":
+            return np.zeros_like(dp)
+        return self.fv_forward(dp)
+
+
+# --------------------------------------------------------------------------- solve
+def _broadcast_inputs(axis: Axis, load, temperature):
+    try:
+        f = np.asarray(load, dtype=float)
+    except (TypeError, ValueError):
+        raise InputError("load", repr(load), "a force in N or an array of forces") from None
+    if not np.all(np.isfinite(f)):
+        raise InputError("load", "NaN or infinite", "finite forces in N")
+    try:
+        t = np.asarray(temperature, dtype=float)
+    except (TypeError, ValueError):
+        raise InputError("temperature", repr(temperature), "a temperature in K or an array of them") from None
+    axis.oil.check_temperature(t, "temperature")
+    f, t = np.broadcast_arrays(f, t)
+    return np.array(f, dtype=float), np.array(t, dtype=float)
+
+
+def solve(axis: Axis, load, temperature, direction: str | None = None, opening: float = 1.0) -> Solution:
+    """Steady state of ``axis`` moving in ``direction`` (default: its controlled motion).
+
+    Parameters
+    ----------
+    axis : Axis
+    load : float or array
+        External force on the rod, N, positive pushing the rod in.
+    temperature : float or array
+        Oil temperature, K; broadcast against ``load``.
+    direction : {"extend", "retract"}, optional
+    opening : float
+        Flow valve opening factor in [0, 1]; 0 closes it (speed 0 with meter-in and
+        meter-out; with bleed-off a closed bleed valve sends all flow to the cylinder).
+
+    Returns
+    -------
+    Solution
+    """
+    direction = axis.controlled if direction is None else direction
+    if direction not in DIRECTIONS:
+        raise InputError("direction", repr(direction), "one of 'extend', 'retract'")
+    opening = check_opening(opening)
+    f_ext, temp = _broadcast_inputs(axis, load, temperature)
+    shape = f_ext.shape
+    rho = np.asarray(axis.oil.density(temp), dtype=float) * np.ones(shape)
+    mu = np.asarray(axis.oil.dynamic_viscosity(temp), dtype=float) * np.ones(shape)
+    lay = _layout(axis, direction)
+    f_res = lay.s * f_ext + axis.friction
+    m = _Model(axis, lay, f_res, rho, mu, opening)
+    a_d, a_o, qp, pt, pcav = lay.a_d, lay.a_o, m.qp, m.pt, m.pcav
+    relief = m.relief
+    zeros = np.zeros(shape)
+    xtol = 1e-13 * m.v_max
+    ftol = 1e-13 * qp
+    lo = zeros.copy()
+    hi = np.full(shape, m.v_max)
+    branch = np.zeros(shape, dtype=np.int8)   # 0 relief open / solved, 1 relief closed at v_max, 2 cavitating (meter-out)
+
+    if lay.kind in ("free", "bleed-off"):
+        def state_s(v, fr=f_res):
+            q_in, q_out = a_d * v, a_o * v
+            p_d, p_o = m.chambers_from_return(q_out, m.p_mid_return(q_out), fr)
+            p_pump = np.maximum(p_d, pcav) + m.dp_supply(q_in)
+            return p_d, p_o, p_pump
+
+        def resid(v):
+            _, _, p_pump = state_s(v)
+            return a_d * v + m.q_bleed(p_pump - pt) + relief.flow(p_pump) - qp
+
+        v = solve_increasing(resid, lo, hi, xtol, ftol)
+    elif lay.kind == "meter-in":
+        def resid(v):
+            q_in, q_out = a_d * v, a_o * v
+            p_d, _ = m.chambers_from_return(q_out, m.p_mid_return(q_out), f_res)
+            p_down = np.maximum(p_d, pcav) + m.dp_supply(q_in)
+            return q_in - m.fv_forward(relief.pressure(qp - q_in) - p_down)
+
+        f_top = resid(hi)
+        branch = np.where(f_top <= 0.0, 1, 0).astype(np.int8)
+        v = solve_increasing(resid, lo, hi, xtol, ftol)
+        v = np.where(branch == 1, m.v_max, v)
+    else:  # meter-out
+        cavmask = np.zeros(shape, dtype=bool)
+
+        def resid(v, cav=None):
+            cav = cavmask if cav is None else cav
+            q_in, q_out = a_d * v, a_o * v
+            p_d = np.where(cav, pcav, relief.pressure(qp - q_in) - m.dp_supply(q_in))
+            p_o = (p_d * a_d - f_res) / a_o
+            p_m = m.mid_from_chambers(q_out, p_d, p_o)
+            return q_out - m.fv_forward(p_m - pt)
+
+        f_top = resid(hi)                                   # relief just closing (p = cracking)
+        closed_top = f_top <= 0.0
+        # relief closed at v_max: pressures from the return side; cavitating if p_d < limit
+        q_out_top = a_o * m.v_max
+        with np.errstate(over="ignore", invalid="ignore"):
+            p_m_top = pt + axis.flow_valve.pressure_drop(np.full(shape, q_out_top), rho, mu, opening)
+        p_m_top = np.where(np.isfinite(p_m_top), p_m_top, pt)
+        p_d_top, _ = m.chambers_from_return(np.full(shape, q_out_top), p_m_top, f_res)
+        cav_branch = closed_top & (p_d_top < pcav)
+        cavmask = cav_branch
+        branch = np.where(cav_branch, 2, np.where(closed_top, 1, 0)).astype(np.int8)
+        # upper end for the cavitating branch: the valve flow with the driving chamber at the limit
+        p_o_c = (pcav * a_d - f_res) / a_o
+        p_m_c = m.mid_from_chambers(np.full(shape, q_out_top), np.full(shape, pcav), p_o_c)
+        v_hi_c = np.maximum(m.fv_forward(p_m_c - pt) / a_o, m.v_max) * (1 + 1e-9) + 1e-12
+        lo = np.where(cav_branch, m.v_max, lo)
+        hi = np.where(cav_branch, v_hi_c, hi)
+        v = solve_increasing(resid, lo, hi, xtol, ftol)
+        v = np.where(branch == 1, m.v_max, v)
+
+    v = np.clip(v, 0.0, None)
+    return _assemble(axis, m, lay, direction, opening, f_ext, temp, v, branch, rho, mu)
+
+
+def _assemble(axis, m: _Model, lay: _Layout, direction, opening, f_ext, temp, v, branch, rho, mu) -> Solution:
+    a_d, a_o, qp, pt, pcav = lay.a_d, lay.a_o, m.qp, m.pt, m.pcav
+    relief = m.relief
+    shape = v.shape
+    moving = v > 0.0
+    fr_used = np.where(moving, axis.friction, 0.0)
+    f_res = lay.s * f_ext + fr_used
+    q_in_swept, q_out = a_d * v, a_o * v
+    fv = axis.flow_valve
+    q_bleed = np.zeros(shape)
+    q_void = np.zeros(shape)
+    p_mid = np.zeros(shape)
+
+    if lay.kind in ("free", "bleed-off"):
+        p_m = m.p_mid_return(q_out)
+        p_d, p_o = m.chambers_from_return(q_out, p_m, f_res)
+        p_pump = np.maximum(p_d, pcav) + m.dp_supply(q_in_swept)
+        # standstill: the pump line sits where bleed and relief take the whole pump flow
+        if np.any(~moving):
+            def rp(p):
+                return m.q_bleed(p - pt) + relief.flow(p) - qp
+            p_stall = solve_increasing(rp, np.zeros(shape), np.full(shape, relief.pressure(qp)),
+                                       1e-9, 1e-13 * qp)
+            p_pump = np.where(moving, p_pump, p_stall)
+            p_d, p_o = _standstill(m, lay, moving, p_stall, p_d, p_o, p_m, f_res, True, False)
+        q_bleed = m.q_bleed(p_pump - pt)
+        q_in = q_in_swept
+        q_relief = np.maximum(qp - q_in - q_bleed, 0.0)
+        p_mid = p_m
+    elif lay.kind == "meter-in":
+        p_m = m.p_mid_return(q_out)
+        p_d, p_o = m.chambers_from_return(q_out, p_m, f_res)
+        p_down = np.maximum(p_d, pcav) + m.dp_supply(q_in_swept)
+        p_pump = relief.pressure(qp - q_in_swept)
+        with np.errstate(over="ignore", invalid="ignore"):
+            dp_rc = fv.pressure_drop(q_in_swept, rho, mu, opening)
+        p_pump = np.where(branch == 1, p_down + np.where(np.isfinite(dp_rc), dp_rc, 0.0), p_pump)
+        if np.any(~moving):
+            p_full = np.full(shape, relief.pressure(qp))
+            p_pump = np.where(moving, p_pump, p_full)
+            p_d, p_o = _standstill(m, lay, moving, p_full, p_d, p_o, p_m, f_res, opening > 0.0, False)
+        q_in = q_in_swept
+        q_relief = np.maximum(qp - q_in, 0.0)
+        p_mid = p_m
+    else:  # meter-out
+        p_d = np.where(branch == 2, pcav, relief.pressure(qp - q_in_swept) - m.dp_supply(q_in_swept))
+        p_o = (p_d * a_d - f_res) / a_o
+        p_m = m.mid_from_chambers(q_out, p_d, p_o)
+        if np.any(branch == 1):
+            with np.errstate(over="ignore", invalid="ignore"):
+                dp_rc = fv.pressure_drop(q_out, rho, mu, opening)
+            p_m_rc = pt + np.where(np.isfinite(dp_rc), dp_rc, 0.0)
+            p_d_rc, p_o_rc = m.chambers_from_return(q_out, p_m_rc, f_res)
+            sel = branch == 1
+            p_d, p_o, p_m = np.where(sel, p_d_rc, p_d), np.where(sel, p_o_rc, p_o), np.where(sel, p_m_rc, p_m)
+        if np.any(~moving):
+            p_full = np.full(shape, relief.pressure(qp))
+            refill = pt - (_check_drop(fv.check, np.zeros(shape)) if fv.check is not None else 0.0)
+            p_d, p_o = _standstill(m, lay, moving, p_full, p_d, p_o, refill, f_res, True, opening == 0.0)
+            p_m = np.where(moving, p_m, m.mid_from_chambers(q_out, p_d, p_o) if lay.hold_driven else p_o)
+        p_pump = np.where(branch == 2, pcav + m.dp_supply(np.full(shape, qp)), p_d + m.dp_supply(q_in_swept))
+        p_pump = np.where(moving, p_pump, relief.pressure(qp))
+        q_in = np.where(branch == 2, qp, q_in_swept)
+        q_void = np.where(branch == 2, np.maximum(q_in_swept - qp, 0.0), 0.0)
+        q_relief = np.maximum(qp - q_in, 0.0)
+        p_mid = p_m
+
+    # demanded pressures before clamping, then the clamp
+    p_d_dem, p_o_dem = p_d, p_o
+    p_d = np.maximum(p_d, pcav)
+    p_o = np.maximum(p_o, pcav)
+    p_pump = np.maximum(p_pump, pcav)
+    p_mid = np.maximum(p_mid, pcav)
+    unbalanced = f_res - (p_d * a_d - p_o * a_o)
+    unbalanced = np.where(np.abs(unbalanced) <= 1e-9 * (np.abs(f_res) + np.abs(p_d * a_d) + 1.0), 0.0, unbalanced)
+
+    # valve flows and drops (valve sign: forward positive)
+    if lay.kind == "meter-in":
+        q_fv, dp_fv = q_in, p_pump - p_d - m.dp_supply(q_in)
+    elif lay.kind == "meter-out":
+        q_fv, dp_fv = q_out, p_mid - pt
+    elif lay.kind == "bleed-off":
+        q_fv, dp_fv = q_bleed, p_pump - pt
+    elif lay.fv_check_supply:
+        q_fv, dp_fv = -q_in, -_check_drop(fv.check, q_in) * moving
+    elif lay.fv_check_return:
+        q_fv, dp_fv = -q_out, -(p_mid - pt) * moving
+    else:
+        q_fv, dp_fv = np.zeros(shape), np.zeros(shape)
+    if lay.hold_driven:
+        q_h, dp_h = q_out, p_o - p_mid
+    elif lay.hold_driving:
+        q_h, dp_h = -q_in, -_check_drop(axis.holding.check, q_in) * moving
+    else:
+        q_h, dp_h = np.zeros(shape), np.zeros(shape)
+    p_pilot = p_d if (lay.hold_driven and isinstance(axis.holding, CounterbalanceValve)) else np.zeros(shape)
+
+    p1, p3 = (p_d, p_o) if lay.driving == "cap" else (p_o, p_d)
+    p1_dem, p3_dem = (p_d_dem, p_o_dem) if lay.driving == "cap" else (p_o_dem, p_d_dem)
+
+    useful = lay.s * f_ext * v
+    fric_p = fr_used * v
+    input_p = p_pump * qp
+    loss_fv = np.abs(dp_fv * q_fv)
+    loss_h = np.abs(dp_h * q_h)
+    loss_r = p_pump * q_relief
+    loss_ret = pt * (q_out + q_bleed)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        eff = np.where(input_p > 0.0, np.maximum(useful, 0.0) / np.where(input_p > 0.0, input_p, 1.0), 0.0)
+
+    regime = _regimes(axis, m, lay, opening, v, branch, p_d_dem, p_o_dem, q_relief, dp_fv, p_o, p_mid)
+    return Solution(direction=direction, arrangement=axis.arrangement, controlled=lay.controlled, opening=opening,
+                    load=f_ext, temperature=temp, speed=v, p1=p1, p3=p3, p_pump=p_pump, p_mid=p_mid,
+                    p_pilot=p_pilot, q_pump=np.full(shape, qp), q_relief=q_relief, q_bleed=q_bleed,
+                    q_cylinder_in=q_in, q_cylinder_out=q_out, q_void=q_void, q_flow_valve=q_fv,
+                    dp_flow_valve=dp_fv, q_holding=q_h, dp_holding=dp_h, friction_force=fr_used,
+                    unbalanced_force=unbalanced, p1_demand=p1_dem, p3_demand=p3_dem, useful_power=useful,
+                    friction_power=fric_p, input_power=input_p, loss_flow_valve=loss_fv, loss_holding=loss_h,
+                    loss_relief=loss_r, loss_return_line=loss_ret, efficiency=eff, regime=regime)
+
+
+def _standstill(m: _Model, lay: _Layout, moving, p_source, p_d, p_o, p_ret, f_res, driving_open: bool,
+                valve_trapped: bool):
+    """Chamber pressures where the piston stands still (friction zero, see module text).
+
+    The driving chamber sees the pump line (less its checks' cracking) when its line is
+    open; the driven chamber is trapped (force balance: the load or intensification) when
+    the holding valve or a closed meter-out valve shuts it in, otherwise it sits at its
+    return or refill pressure ``p_ret`` and the load may be unbalanced (stalled).
+    """
+    a_d, a_o = lay.a_d, lay.a_o
+    z = np.zeros_like(p_source)
+    trapped_o = lay.hold_driven or valve_trapped
+    if driving_open:
+        pd_s = p_source - m.dp_supply(z)
+        if trapped_o:
+            po_s = (pd_s * a_d - f_res) / a_o
+        else:
+            po_s = np.maximum((pd_s * a_d - f_res) / a_o, p_ret) if lay.kind == "meter-out" else p_ret + z
+    else:
+        po_s = p_ret + z
+        pd_s = (f_res + po_s * a_o) / a_d
+        if lay.hold_driven:
+            pd_s = np.maximum(pd_s, 0.0)
+            po_s = (pd_s * a_d - f_res) / a_o
+    return np.where(moving, p_d, pd_s), np.where(moving, p_o, po_s)
+
+
+def _regimes(axis, m, lay, opening, v, branch, p_d_dem, p_o_dem, q_relief, dp_fv, p_o, p_mid):
+    shape = v.shape
+    pcav = m.pcav
+    moving = v > 0.0
+    tol_q = 1e-9 * m.qp
+    relief_open = q_relief > tol_q
+    out = np.full(shape, PUMP_LIMITED, dtype="<U20")
+    out[relief_open] = RELIEF
+    if lay.kind in ("meter-in", "meter-out"):
+        out[relief_open] = METERING
+    if lay.kind == "bleed-off":
+        out[~relief_open] = METERING
+    if lay.kind in ("meter-in", "meter-out", "bleed-off") and getattr(axis.flow_valve, "compensated", False):
+        starved = axis.flow_valve.starved(dp_fv) & moving & (relief_open | (lay.kind == "bleed-off"))
+        out[starved] = STARVED
+    cav = (p_d_dem < pcav) | (p_o_dem < pcav)
+    out[cav & moving] = CAVITATING
+    out[moving & (p_d_dem < pcav) & (branch != 2)] = RUNAWAY
+    if lay.hold_driven and isinstance(axis.holding, CounterbalanceValve):
+        closed_hold = (p_o - p_mid) + axis.holding.pilot_ratio * np.maximum(p_d_dem, pcav) < axis.holding.setting
+    elif lay.hold_driven:
+        closed_hold = (p_o - p_mid) < axis.holding.setting
+    else:
+        closed_hold = np.zeros(shape, dtype=bool)
+    still = ~moving
+    out[still] = STALLED
+    out[still & closed_hold] = HELD
+    out[still & (p_d_dem < pcav) & ~(still & closed_hold)] = CAVITATING if lay.kind == "meter-out" else STALLED
+    if opening == 0.0 and lay.kind in ("meter-in", "meter-out"):
+        out[still] = CLOSED
+    return out
+
+
+# --------------------------------------------------------------------------- building
+def _flow_valve_from_values(fv: Mapping, oil: Oil):
+    from .restrictor import LongThrottle, NeedleThrottle, SharpOrifice
+    kind = fv.get("kind", "compensated")
+    check = CheckValve(fv.get("check_cracking", 0.5 * _BAR))
+    cd = fv.get("cd", 0.61)
+    if kind == "orifice":
+        return RestrictorValve(SharpOrifice(fv["diameter"], cd=cd), check, kind="orifice")
+    if kind == "throttle":
+        return RestrictorValve(LongThrottle(fv["diameter"], fv["length"]), check, kind="throttle")
+    if kind == "needle":
+        return RestrictorValve(NeedleThrottle.from_turns(fv["seat_diameter"], fv["half_angle"], fv["turns"],
+                                                         fv["pitch"], cd=cd), check, kind="needle")
+    if kind == "compensated":
+        rho40 = float(oil.density(313.15))
+        return CompensatedFlowValve.from_setting(fv["setting"], rho40, cd=cd,
+                                                 compensator_drop=fv.get("compensator_drop", 6 * _BAR),
+                                                 min_drop=fv.get("min_drop", 8 * _BAR), droop=fv.get("droop", 0.02),
+                                                 check=check)
+    raise InputError("flow_valve.kind", repr(kind), "one of 'orifice', 'throttle', 'needle', 'compensated'")
+
+
+def axis_from_values(values: Mapping[str, Mapping]) -> Axis:
+    """An :class:`Axis` from parsed sections (``{section_key: dict}``, SI values as
+    produced by ``workbook.inputs.<SECTION>.parse``): cylinder, oil, supply, flow_valve,
+    holding, operation, ratings (and optionally limits for ``cavitation_abs``).
+
+    Cross-field rules (each an :class:`~workbook.errors.InputError` naming the field):
+    rod smaller than bore; relief full-flow above cracking; a compensated setting at most
+    the pump flow; a minimum working drop at least the compensator drop; a pilot ratio
+    above zero; temperatures in the oil's validity, cold not above warm. A counterbalance
+    set below the load-holding pressure is reported by :func:`workbook.checks.evaluate`
+    (rule ``H-CB-HOLDS``) rather than refused, so the study can show what happens.
+
+    The compensated setting is taken at the oil density at 40 °C (the ISO 3448 reference).
+    """
+    need = ("cylinder", "oil", "supply", "flow_valve", "holding", "operation")
+    for key in need:
+        if key not in values:
+            raise InputError(key, "nothing (the section is missing)", "the parsed section " + key)
+    cy, oil_v, sup, fv, hold, op = (values[k] for k in need)
+    if cy["rod"] >= cy["bore"]:
+        raise InputError("rod", f"{cy['rod'] * 1e3:g} mm",
+                         f"a rod diameter smaller than the bore ({cy['bore'] * 1e3:g} mm)")
+    cylinder = Cylinder.from_values(cy)
+    oil = Oil.from_values(oil_v)
+    supply = Supply.from_values(sup)
+    valve = _flow_valve_from_values(fv, oil)
+    if isinstance(valve, CompensatedFlowValve) and fv["setting"] > supply.flow * (1 + 1e-12):
+        raise InputError("flow_valve.setting", f"{fv['setting'] / _LPM:g} L/min",
+                         f"a flow at most the pump flow ({supply.flow / _LPM:.4g} L/min)")
+    kind = hold.get("kind", "none")
+    holding = None
+    if kind == "counterbalance":
+        r = hold.get("pilot_ratio")
+        if r is None or not r > 0:
+            raise InputError("pilot_ratio", r, "a pilot ratio greater than 0 (for example 3 for 3:1)")
+        holding = CounterbalanceValve(hold["setting"], r, hold["gradient"], CheckValve(hold.get("check_cracking", _BAR)))
+    elif kind == "back-pressure":
+        holding = BackPressureValve(hold["setting"], hold["gradient"], CheckValve(hold.get("check_cracking", _BAR)))
+    elif kind != "none":
+        raise InputError("holding.kind", repr(kind), "one of 'none', 'counterbalance', 'back-pressure'")
+    if holding is not None and hold["setting"] >= supply.relief.full_flow and kind == "back-pressure":
+        raise InputError("holding.setting", f"{hold['setting'] / _BAR:g} bar",
+                         f"a back-pressure setting below the relief full-flow pressure "
+                         f"({supply.relief.full_flow / _BAR:g} bar)")
+    ratings = Ratings.from_values(values["ratings"]) if "ratings" in values else Ratings()
+    cav = values.get("limits", {}).get("cavitation_abs", CAVITATION_ABS_DEFAULT)
+    return Axis(cylinder=cylinder, oil=oil, supply=supply, flow_valve=valve, arrangement=fv["arrangement"],
+                controlled=fv["direction"], holding=holding, holding_side=hold.get("side", "cap"),
+                friction=op["friction"], tank_pressure=op["tank_pressure"], loads=tuple(op["loads"]),
+                temp_min=op["temp_min"], temp_max=op["temp_max"], target_speed=op.get("target_speed"),
+                speed_tolerance=op.get("speed_tolerance", 0.15), mass=op.get("mass", 0.0), ratings=ratings,
+                cavitation_abs=cav)
+
+
+__all__ = ["Axis", "Ratings", "Solution", "solve", "axis_from_values", "solve_increasing", "REGIMES",
+           "ARRANGEMENTS", "DIRECTIONS", "METERING", "STARVED", "PUMP_LIMITED", "RELIEF", "STALLED", "HELD",
+           "CLOSED", "RUNAWAY", "CAVITATING", "CAVITATION_ABS_DEFAULT"]

@@ -1,0 +1,299 @@
+"""Review forms of a record: Markdown and self-contained HTML.
+
+Both show, in this order: the identity, the caution (:data:`workbook.CAUTION`), a count of
+findings by level, then every study with its inputs (grouped by catalogue section, with
+units), results, findings (level, value, limit, margin and source), figures and notes, and
+last the record's own notes.
+
+The HTML needs nothing else to open: styles are inline, figures are inline SVG drawn from
+the stored curve data, there is no script, font or link to fetch, and a print stylesheet
+keeps tables and figures whole on paper. Every piece of text that a person typed is
+escaped (``html.escape(..., quote=True)``). A finding's level is a word and a mark
+(``FAIL`` with a filled square, ``CAUTION`` with a triangle, ``PASS`` with a ring), never
+colour alone.
+
+>>> from workbook.record import Record
+>>> page = to_html(Record({"machine": "<BT-2>", "axis": "lift"}))
+>>> "&lt;BT-2&gt;" in page and "<BT-2>" not in page
+True
+"""
+
+from __future__ import annotations
+
+import html
+from pathlib import Path
+
+from .. import CAUTION
+from ..inputs import BY_KEY, SECTIONS
+from .model import LEVELS, Record, Study
+from .store import atomic_write_text
+from .svg import ACCENT, line_chart
+
+LEVEL_WORD = {"fail": "FAIL", "caution": "CAUTION", "pass": "PASS"}
+LEVEL_MARK = {"fail": "\u25a0", "caution": "\u25b2", "pass": "\u25cb"}  # filled square, triangle, ring
+
+
+def _esc(text) -> str:
+    return html.escape(str(text), quote=True)
+
+
+def _num(v, digits: int = 6) -> str:
+    if v is None:
+        return ""
+    if isinstance(v, bool):
+        return "yes" if v else "no"
+    if isinstance(v, (list, tuple)):
+        return ", ".join(_num(x, digits) for x in v)
+    if isinstance(v, str):
+        return v
+    if v == 0:
+        return "0"
+    return f"{v:.{digits}g}"
+
+
+def _margin(m) -> str:
+    return "" if m is None else f"{m * 100:.3g} %"
+
+
+def pretty_unit(unit: str) -> str:
+    """A unit as people write it: ``cm**3`` as ``cm³``, ``degC`` as ``°C``.
+
+    >>> pretty_unit("kg/m**3"), pretty_unit("degC")
+    ('kg/m³', '°C')
+    """
+    return (unit.replace("**2", "\u00b2").replace("**3", "\u00b3").replace("degC", "\u00b0C")
+            .replace("degF", "\u00b0F"))
+
+
+def _input_rows(study: Study):
+    """(section title, [(label, key, value text, unit)]) in catalogue order."""
+    order = [s.key for s in SECTIONS] + [k for k in study.inputs if k not in BY_KEY]
+    for sec_key in order:
+        entries = study.inputs.get(sec_key)
+        if not entries:
+            continue
+        sec = BY_KEY.get(sec_key)
+        rows = []
+        for key, entry in entries.items():
+            try:
+                label = sec[key].label if sec else key
+            except KeyError:
+                label = key
+            rows.append((label, key, _num(entry.get("value")), pretty_unit(entry.get("unit", ""))))
+        yield (sec.title if sec else sec_key), rows
+
+
+def _counts(record: Record) -> dict:
+    counts = {lvl: 0 for lvl in LEVELS}
+    for f in record.findings():
+        counts[f["level"]] += 1
+    return counts
+
+
+# ---------------------------------------------------------------------------- Markdown
+def _md(text) -> str:
+    """Escape text for a Markdown table cell or line: HTML-escaped, markup characters escaped."""
+    out = html.escape(str(text), quote=True)
+    for ch in "\\`*_[]|#~":
+        out = out.replace(ch, "\\" + ch)
+    return out.replace("\r\n", " ").replace("\n", " ").replace("\r", " ")
+
+
+def _md_table(head, rows) -> list[str]:
+    lines = ["| " + " | ".join(head) + " |", "|" + "|".join("---" for _ in head) + "|"]
+    lines += ["| " + " | ".join(r) + " |" for r in rows]
+    return lines + [""]
+
+
+def to_markdown(record: Record) -> str:
+    """The record as Markdown text."""
+    ident = record.identity
+    out = [f"# Design record: {_md(ident.get('machine', ''))}, axis {_md(ident.get('axis', ''))}", "",
+           f"> **{_md(CAUTION)}**", ""]
+    rows = [[_md(BY_KEY["identity"][k].label), _md(v)] for k, v in ident.items()]
+    rows += [["Library version", _md(record.library_version)], ["Schema version", str(record.schema_version)]]
+    out += _md_table(["Identity", ""], rows)
+    c = _counts(record)
+    out += ["Findings: " + ", ".join(f"{c[lvl]} {LEVEL_WORD[lvl]}" for lvl in LEVELS), ""]
+    for n, (key, study) in enumerate(record.studies.items(), 1):
+        out += [f"## {n}. {_md(study.title or study.kind)}", "", f"Study `{_md(key)}`, kind `{_md(study.kind)}`.", ""]
+        if study.inputs:
+            out += ["### Inputs", ""]
+            for title, rows in _input_rows(study):
+                out += [f"**{_md(title)}**", ""]
+                out += _md_table(["Input", "Key", "Value", "Unit"],
+                                 [[_md(lbl), f"`{_md(k)}`", _md(v), _md(u)] for lbl, k, v, u in rows])
+        if study.results:
+            out += ["### Results", ""]
+            out += _md_table(["Result", "Key", "Value", "Unit"],
+                             [[_md(r["label"]), f"`{_md(k)}`", _num(r["value"], 5), _md(pretty_unit(r["unit"]))]
+                              for k, r in study.results.items()])
+        if study.findings:
+            out += ["### Findings", ""]
+            rows = []
+            for f in study.findings:
+                statement = _md(f["statement"]) + (f" ({_md(f['detail'])})" if f["detail"] else "")
+                unit = _md(pretty_unit(f["unit"]))
+                rows.append([f"{LEVEL_MARK[f['level']]} **{LEVEL_WORD[f['level']]}**", f"`{_md(f['rule_id'])}`",
+                             statement, f"{_num(f['value'], 5)} {unit}".strip() if f["value"] is not None else "",
+                             f"{_num(f['limit'], 5)} {unit}".strip() if f["limit"] is not None else "",
+                             _margin(f["margin"]), _md(f["source"])])
+            out += _md_table(["Level", "Rule", "Statement", "Value", "Limit", "Margin", "Source"], rows)
+        if study.figures:
+            out += ["### Figures", ""]
+            for name, fig in study.figures.items():
+                series = ", ".join(_md(s) for s in fig["series"]) or "no series"
+                limits = "; ".join(f"{_md(k)} = {_num(v, 5)}" for k, v in fig["limits"].items())
+                out.append(f"- **{_md(fig['title'])}**: {_md(fig['y_label'])} against {_md(fig['x_label'])}, "
+                           f"{len(fig['x'])} points; series: {series}" + (f"; limits: {limits}" if limits else "")
+                           + " (drawn in the HTML export)")
+            out.append("")
+        if study.notes:
+            out += ["### Notes", ""] + [f"- {_md(t)}" for t in study.notes] + [""]
+    if record.notes:
+        out += ["## Notes", ""] + [f"- {_md(t)}" for t in record.notes] + [""]
+    out += [f"_Written by workbook {_md(record.library_version)}, record schema version "
+            f"{record.schema_version}._", ""]
+    return "\n".join(out)
+
+
+def export_markdown(record: Record, path) -> Path:
+    """Write :func:`to_markdown` to ``path`` atomically."""
+    return atomic_write_text(path, to_markdown(record))
+
+
+# ---------------------------------------------------------------------------- HTML
+_CSS = f"""
+:root {{ --accent: {ACCENT}; }}
+* {{ box-sizing: border-box; }}
+body {{ margin: 2rem auto; max-width: 62rem; padding: 0 1rem; color: #000; background: #fff;
+  font: 15px/1.45 system-ui, -apple-system, "Segoe UI", Roboto, Helvetica, Arial, sans-serif; }}
+h1 {{ font-size: 1.6rem; margin: 0 0 .8rem; border-bottom: 3px solid var(--accent); padding-bottom: .3rem; }}
+h2 {{ font-size: 1.25rem; margin: 2rem 0 .4rem; border-bottom: 1px solid #000; }}
+h3 {{ font-size: 1.02rem; margin: 1.2rem 0 .3rem; color: var(--accent); }}
+h4 {{ font-size: .95rem; margin: .8rem 0 .2rem; }}
+.caution {{ border: 2px solid #000; border-left: 10px solid var(--accent); padding: .6rem .9rem;
+  margin: 0 0 1.2rem; font-weight: 600; }}
+table {{ border-collapse: collapse; margin: .2rem 0 .8rem; width: 100%; }}
+th, td {{ text-align: left; vertical-align: top; padding: .22rem .55rem; border-bottom: 1px solid #ccc; }}
+th {{ border-bottom: 2px solid #000; font-weight: 600; }}
+td.num {{ text-align: right; font-variant-numeric: tabular-nums; white-space: nowrap; }}
+code {{ font-family: ui-monospace, Menlo, Consolas, monospace; font-size: .9em; }}
+.level {{ font-weight: 700; white-space: nowrap; }}
+.level .mark {{ display: inline-block; width: 1.1em; }}
+.level-fail {{ color: #000; }}
+.level-caution {{ color: #000; }}
+.level-pass {{ color: #333; font-weight: 600; }}
+tr.fail td {{ background: #f3f3f3; }}
+.summary span {{ margin-right: 1.2rem; }}
+.meta {{ color: #444; font-size: .88rem; }}
+figure {{ margin: .6rem 0 1rem; }}
+figcaption {{ font-weight: 600; margin-bottom: .2rem; }}
+svg.chart {{ max-width: 100%; height: auto; font-family: inherit; }}
+footer {{ margin-top: 2.5rem; border-top: 1px solid #000; padding-top: .4rem; font-size: .85rem; }}
+@media print {{
+  @page {{ margin: 15mm; }}
+  body {{ margin: 0; max-width: none; font-size: 10.5pt; }}
+  h2 {{ break-after: avoid; }}
+  h3, h4 {{ break-after: avoid; }}
+  table, figure, .caution {{ break-inside: avoid; }}
+  section.study {{ break-before: page; }}
+  tr.fail td {{ background: none; }}
+}}
+"""
+
+
+def _table(head, rows, num_cols=(), row_classes=None) -> str:
+    out = ["<table><thead><tr>" + "".join(f"<th>{h}</th>" for h in head) + "</tr></thead><tbody>"]
+    for i, row in enumerate(rows):
+        cls = f' class="{row_classes[i]}"' if row_classes else ""
+        cells = "".join(f'<td class="num">{c}</td>' if j in num_cols else f"<td>{c}</td>" for j, c in enumerate(row))
+        out.append(f"<tr{cls}>{cells}</tr>")
+    out.append("</tbody></table>")
+    return "".join(out)
+
+
+def _level_html(level: str) -> str:
+    return (f'<span class="level level-{level}"><span class="mark" aria-hidden="true">{LEVEL_MARK[level]}</span>'
+            f"{LEVEL_WORD[level]}</span>")
+
+
+def _study_html(n: int, key: str, study: Study) -> str:
+    out = [f'<section class="study" id="study-{n}">', f"<h2>{n}. {_esc(study.title or study.kind)}</h2>",
+           f'<p class="meta">Study <code>{_esc(key)}</code>, kind <code>{_esc(study.kind)}</code></p>']
+    if study.inputs:
+        out.append("<h3>Inputs</h3>")
+        for title, rows in _input_rows(study):
+            out.append(f"<h4>{_esc(title)}</h4>")
+            out.append(_table(["Input", "Key", "Value", "Unit"],
+                              [[_esc(lbl), f"<code>{_esc(k)}</code>", _esc(v), _esc(u)] for lbl, k, v, u in rows],
+                              num_cols=(2,)))
+    if study.results:
+        out.append("<h3>Results</h3>")
+        out.append(_table(["Result", "Key", "Value", "Unit"],
+                          [[_esc(r["label"]), f"<code>{_esc(k)}</code>", _esc(_num(r["value"], 5)),
+                            _esc(pretty_unit(r["unit"]))] for k, r in study.results.items()], num_cols=(2,)))
+    if study.findings:
+        out.append("<h3>Findings</h3>")
+        rows, classes = [], []
+        for f in study.findings:
+            unit = _esc(pretty_unit(f["unit"]))
+            statement = _esc(f["statement"])
+            if f["quantity"]:
+                statement += f'<br><span class="meta">{_esc(f["quantity"])}</span>'
+            if f["detail"]:
+                statement += f'<br><span class="meta">{_esc(f["detail"])}</span>'
+            rows.append([_level_html(f["level"]), f"<code>{_esc(f['rule_id'])}</code>", statement,
+                         f"{_esc(_num(f['value'], 5))} {unit}".strip() if f["value"] is not None else "",
+                         f"{_esc(_num(f['limit'], 5))} {unit}".strip() if f["limit"] is not None else "",
+                         _esc(_margin(f["margin"])), _esc(f["source"])])
+            classes.append(f["level"])
+        out.append(_table(["Level", "Rule", "Statement", "Value", "Limit", "Margin", "Source"], rows,
+                          num_cols=(3, 4, 5), row_classes=classes))
+    if study.figures:
+        out.append("<h3>Figures</h3>")
+        for fig in study.figures.values():
+            out.append(f"<figure><figcaption>{_esc(fig['title'])}</figcaption>{line_chart(fig)}</figure>")
+    if study.notes:
+        out.append("<h3>Notes</h3><ul>" + "".join(f"<li>{_esc(t)}</li>" for t in study.notes) + "</ul>")
+    out.append("</section>")
+    return "\n".join(out)
+
+
+def to_html(record: Record) -> str:
+    """The record as one self-contained HTML page (no script, no external reference)."""
+    ident = record.identity
+    heading = f"Design record: {_esc(ident.get('machine', ''))}, axis {_esc(ident.get('axis', ''))}"
+    ident_rows = [[_esc(BY_KEY["identity"][k].label), _esc(v)] for k, v in ident.items()]
+    ident_rows += [["Library version", _esc(record.library_version)], ["Schema version", str(record.schema_version)]]
+    c = _counts(record)
+    summary = "".join(f"<span>{_level_html(lvl)} {c[lvl]}</span>" for lvl in LEVELS)
+    parts = [
+        "<!DOCTYPE html>",
+        '<html lang="en"><head><meta charset="utf-8">',
+        '<meta name="viewport" content="width=device-width, initial-scale=1">',
+        f"<title>{heading}</title>",
+        f"<style>{_CSS}</style></head><body>",
+        f"<header><h1>{heading}</h1>",
+        f'<p class="caution" role="note">{_esc(CAUTION)}</p>',
+        _table(["Identity", ""], ident_rows),
+        f'<p class="summary">Findings: {summary}</p></header>',
+        "<main>",
+    ]
+    parts += [_study_html(n, key, s) for n, (key, s) in enumerate(record.studies.items(), 1)]
+    if record.notes:
+        parts.append("<section><h2>Notes</h2><ul>" + "".join(f"<li>{_esc(t)}</li>" for t in record.notes)
+                     + "</ul></section>")
+    parts += ["</main>",
+              f"<footer>Written by workbook {_esc(record.library_version)}, record schema version "
+              f"{record.schema_version}. {_esc(CAUTION)}</footer>",
+              "</body></html>", ""]
+    return "\n".join(parts)
+
+
+def export_html(record: Record, path) -> Path:
+    """Write :func:`to_html` to ``path`` atomically; return the path."""
+    return atomic_write_text(path, to_html(record))
+
+
+__all__ = ["to_markdown", "to_html", "export_html", "export_markdown", "pretty_unit", "LEVEL_WORD", "LEVEL_MARK"]

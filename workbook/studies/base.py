@@ -1,0 +1,161 @@
+"""What every study returns, and small helpers to state results and findings.
+
+An :class:`Outcome` holds, in the record's own forms (see :mod:`workbook.record`):
+
+* ``results``: ``{key: {"value": number in display unit, "unit": str, "label": str}}``,
+* ``findings``: a list of finding mappings (``rule_id, statement, quantity, value, limit,
+  unit, margin, level, source, detail``), sorted fail, caution, pass,
+* ``figures``: curve data ``{key: {"title", "x_label", "y_label", "x", "series", "limits"}}``,
+* ``regimes``: for each figure and series, the regime label of every point (shown in the
+  panels' hover readout and as dotted stretches; not stored in the record),
+
+and :meth:`Outcome.summary` gives the deterministic plain-text summary a notebook ends with.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+from typing import Iterable, Mapping
+
+import numpy as np
+
+from .. import CAUTION, inputs, units
+from ..errors import InputError
+from ..record import Study, inputs_from_values
+
+LEVEL_ORDER = {"fail": 0, "caution": 1, "pass": 2}
+
+
+def result(label: str, si_value, dimension: str, unit: str) -> dict:
+    """A result entry in display units.
+
+    >>> result("Bore", 0.08, "length", "mm")
+    {'value': 80.0, 'unit': 'mm', 'label': 'Bore'}
+    """
+    value = units.from_si(float(si_value), dimension, unit) if dimension != "dimensionless" else float(si_value)
+    if not math.isfinite(value):
+        raise InputError(label, "a value that is not finite", "a finite result (report this as a defect)")
+    return {"value": float(value), "unit": unit if dimension != "dimensionless" or unit else "", "label": label}
+
+
+def ratio_result(label: str, value: float, percent: bool = False) -> dict:
+    """A dimensionless result, optionally in percent."""
+    v = float(value) * (100.0 if percent else 1.0)
+    return {"value": v, "unit": "%" if percent else "", "label": label}
+
+
+def grade(value: float, limit: float, caution_share: float, higher_is_worse: bool = True) -> tuple[str, float]:
+    """Level and margin of ``value`` against ``limit``.
+
+    The margin is the share of the limit still unused: ``(limit - value)/|limit|`` when a
+    higher value is worse, ``(value - limit)/|limit|`` otherwise. Negative margin fails;
+    a margin below ``caution_share`` is a caution.
+
+    >>> grade(200e5, 210e5, 0.10)
+    ('caution', 0.047619047619047616)
+    """
+    scale = abs(limit) if limit != 0 else 1.0
+    margin = ((limit - value) if higher_is_worse else (value - limit)) / scale
+    if margin < -1e-12:
+        return "fail", margin
+    if margin < caution_share:
+        return "caution", margin
+    return "pass", margin
+
+
+def finding(rule_id: str, statement: str, quantity: str, value, limit, dimension: str, unit: str,
+            level: str, source: str, margin: float | None = None, detail: str = "") -> dict:
+    """A finding entry with value and limit converted to ``unit``."""
+    def conv(v):
+        if v is None:
+            return None
+        v = float(v)
+        if not math.isfinite(v):
+            return None
+        if dimension == "dimensionless":
+            return v * (100.0 if unit == "%" else 1.0)
+        return float(units.from_si(v, dimension, unit))
+
+    return {
+        "rule_id": rule_id, "statement": statement, "quantity": quantity,
+        "value": conv(value), "limit": conv(limit), "unit": unit,
+        "margin": None if margin is None or not math.isfinite(margin) else float(margin),
+        "level": level, "source": source, "detail": detail,
+    }
+
+
+def sort_findings(items: Iterable[Mapping]) -> list[dict]:
+    """Findings sorted fail, caution, pass (stable within a level)."""
+    return sorted((dict(f) for f in items), key=lambda f: LEVEL_ORDER.get(f["level"], 3))
+
+
+def curve(values) -> list:
+    """A curve as a list of floats for a figure; non-finite points become gaps (None)."""
+    arr = np.asarray(values, dtype=float).ravel()
+    return [float(v) if math.isfinite(v) else None for v in arr]
+
+
+@dataclass
+class Outcome:
+    """Results, findings and curves of one study run."""
+
+    kind: str
+    title: str
+    values: Mapping[str, Mapping]
+    fields: tuple
+    results: dict = field(default_factory=dict)
+    findings: list = field(default_factory=list)
+    figures: dict = field(default_factory=dict)
+    regimes: dict = field(default_factory=dict)
+    notes: list = field(default_factory=list)
+
+    def __post_init__(self):
+        self.findings = sort_findings(self.findings)
+
+    @property
+    def worst_level(self) -> str:
+        levels = [f["level"] for f in self.findings] or ["pass"]
+        return min(levels, key=lambda lv: LEVEL_ORDER.get(lv, 3))
+
+    def recorded_values(self) -> dict:
+        """The inputs this study depends on (its FIELDS), as SI values by section."""
+        out: dict = {}
+        for section, key in self.fields:
+            out.setdefault(section, {})[key] = self.values[section][key]
+        return out
+
+    def to_study(self, notes: Iterable[str] = ()) -> Study:
+        """The study as the design record stores it."""
+        return Study(kind=self.kind, title=self.title, inputs=inputs_from_values(self.recorded_values()),
+                     results=self.results, findings=self.findings, figures=self.figures,
+                     notes=list(self.notes) + list(notes))
+
+    def summary(self) -> str:
+        """Deterministic plain text: caution, inputs, results, findings (4 significant digits)."""
+        lines = [f"{self.title}", "=" * len(self.title), CAUTION, "", "Inputs:"]
+        for section, key in self.fields:
+            f = inputs.section(section)[key]
+            lines.append(f"  {section + '.' + key:<32} {f.as_text(self.values[section][key], digits=4)}")
+        lines += ["", "Results:"]
+        for key, r in self.results.items():
+            lines.append(f"  {r['label']:<46} {_num(r['value'])} {r['unit']}".rstrip())
+        lines += ["", "Findings:"]
+        for f in self.findings:
+            margin = "" if f["margin"] is None else f" margin {f['margin'] * 100:+.0f} %"
+            lines.append(f"  [{f['level'].upper():7}] {f['rule_id']}: {f['statement']}"
+                         f" ({_num(f['value'])} vs {_num(f['limit'])} {f['unit']}{margin}; {f['source']})")
+        return "\n".join(lines)
+
+
+def _num(v) -> str:
+    if v is None:
+        return "–"
+    if isinstance(v, (list, tuple)):
+        return ", ".join(_num(x) for x in v)
+    if v == 0:
+        return "0"
+    return f"{v:.4g}"
+
+
+__all__ = ["Outcome", "result", "ratio_result", "finding", "grade", "sort_findings", "curve", "LEVEL_ORDER"]

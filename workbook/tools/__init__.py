@@ -1,0 +1,1 @@
+"""Maintenance tools for contributors (not used by the studies themselves)."""

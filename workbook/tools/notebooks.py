@@ -1,0 +1,160 @@
+"""Create and refresh the study notebooks.
+
+``python -m workbook.tools.notebooks refresh notebooks`` executes every study notebook with
+the library as it is now (nbclient), keeps the text outputs that nbval compares, drops the
+outputs of widget cells (their model ids change on every run) and the saved widget state,
+and writes the notebooks back, small and free of absolute paths.
+
+``python -m workbook.tools.notebooks create notebooks`` writes a study notebook from the
+template of each study in :data:`STUDIES` when it does not exist yet.
+"""
+
+from __future__ import annotations
+
+import argparse
+import os
+import sys
+import tempfile
+from pathlib import Path
+
+from .. import CAUTION
+
+#: file name -> (study kind, axis of the demo design, title, purpose, what to look at)
+STUDIES = {
+    "1-restrictor-sizing.ipynb": (
+        "restrictor-sizing", "lift", "Restrictor sizing",
+        "Size a sharp orifice, a long throttle and a needle throttle for the lowering flow of the "
+        "lift axis, round the orifice to a drill, and see how each candidate holds its flow as the "
+        "pressure drop and the oil temperature change.",
+        "The orifice and the needle keep their flow from cold to warm oil; the long throttle, "
+        "laminar, follows the viscosity. Try a longer throttle, a smaller drop or a thinner oil.",
+        'panel.set("study.target_flow", "12 L/min")',
+    ),
+    "2-speed-against-load.ipynb": (
+        "speed-vs-load", "lift", "Load sensitivity of speed",
+        "Speed of the controlled motion against load for an orifice, a long throttle and a "
+        "pressure-compensated valve, in the chosen metering arrangement; pump pressure and losses "
+        "against load; and the speed variation over the load range as one figure of merit.",
+        "Dotted stretches of a curve are points where the valve is not simply metering (starved "
+        "compensator, relief bypassing, stall, runaway): hover for the regime of each point.",
+        'panel.set("flow_valve.arrangement", "meter-out")',
+    ),
+    "3-rod-side-pressure.ipynb": (
+        "rod-pressure", "tip", "Rod-side pressure check",
+        "Every operating case of the tip axis in both directions, including the flow valve fully "
+        "closed and the overrunning load, with chamber pressures against load, the ratings drawn, "
+        "margins, and what to change when a case fails.",
+        "With the meter-out valve closed the rod side sees supply pressure times the area ratio, "
+        "plus a pulling load over the annulus: check it against the cylinder, hose and valve ratings.",
+        'panel.set("cylinder.rod", "36 mm")',
+    ),
+    "4-counterbalance-setting.ipynb": (
+        "counterbalance", "lift", "Counterbalance setting",
+        "The counterbalance setting of the lift axis from its load cases, pilot ratios side by side "
+        "(pilot pressure to lower, pump pressure, heat), the same duty with a back-pressure valve in "
+        "series, and the ratings check of the chosen setting.",
+        "A low pilot ratio is steadier with an unstable load; a high ratio wastes less energy. The "
+        "back-pressure valve costs its setting times the flow as heat all the time.",
+        'panel.set("holding.setting", "30 bar")',
+    ),
+}
+
+DESIGN = "designs/bin-tipper.toml"
+
+
+def _cells(kind, axis, title, purpose, hint, try_line):
+    import nbformat.v4 as nbf
+
+    return [
+        nbf.new_markdown_cell(
+            f"# {title}\n\n{purpose}\n\n> **Caution.** {CAUTION.removeprefix('Caution: ')}\n\n"
+            f"Design: `{DESIGN}`, axis `{axis}` (an invented bin tipper). Type values with units "
+            "(\"80 mm\", \"3.15 in\", \"160 bar\", \"2300 psi\"); a refused entry is explained beside "
+            "its field and the last valid results stay, marked out of date. **Record study** writes "
+            "this study into the axis's design record; **Export HTML** writes its review copy."),
+        nbf.new_code_cell(
+            "# NBVAL_IGNORE_OUTPUT\n"
+            "from workbook.ui import open_study\n\n"
+            f'panel = open_study("{kind}", "{DESIGN}", axis="{axis}")\n'
+            "panel.show()"),
+        nbf.new_markdown_cell(f"{hint}\n\nThe entry below is where a scripted change goes; "
+                              "the panel above shows the same values."),
+        nbf.new_code_cell(try_line),
+        nbf.new_markdown_cell("## Summary\n\nInputs, results and findings as plain text; nbval "
+                              "compares this output on every test run."),
+        nbf.new_code_cell("print(panel.summary())"),
+    ]
+
+
+def create(folder: Path) -> list[Path]:
+    import nbformat
+
+    written = []
+    for name, spec in STUDIES.items():
+        path = folder / name
+        if path.exists():
+            continue
+        nb = nbformat.v4.new_notebook()
+        nb.cells = _cells(*spec)
+        nb.metadata["kernelspec"] = {"name": "python3", "display_name": "Python 3", "language": "python"}
+        nb.metadata["language_info"] = {"name": "python"}
+        nbformat.write(nb, path)
+        written.append(path)
+    return written
+
+
+def _strip(nb) -> None:
+    nb.metadata.pop("widgets", None)
+    nb.metadata["language_info"] = {"name": "python"}
+    for cell in nb.cells:
+        if cell.cell_type != "code":
+            continue
+        cell.metadata.pop("execution", None)
+        if cell.source.lstrip().startswith("# NBVAL_IGNORE_OUTPUT"):
+            cell.outputs = []
+        else:
+            cell.outputs = [o for o in cell.outputs if o.get("output_type") == "stream"
+                            or "text/plain" in o.get("data", {})]
+            for o in cell.outputs:
+                if "data" in o:
+                    o["data"] = {"text/plain": o["data"]["text/plain"]}
+                o.pop("metadata", None) if o.get("output_type") == "stream" else None
+
+
+def refresh(folder: Path) -> list[Path]:
+    """Execute and strip every study notebook in ``folder``."""
+    import nbformat
+    from nbclient import NotebookClient
+
+    done = []
+    with tempfile.TemporaryDirectory() as records:
+        os.environ["WORKBOOK_RECORDS_DIR"] = records
+        for name in STUDIES:
+            path = folder / name
+            nb = nbformat.read(path, as_version=4)
+            NotebookClient(nb, timeout=300, kernel_name="python3",
+                           resources={"metadata": {"path": str(folder)}}).execute()
+            _strip(nb)
+            nbformat.write(nb, path)
+            done.append(path)
+    return done
+
+
+def main(argv=None) -> int:
+    parser = argparse.ArgumentParser(prog="python -m workbook.tools.notebooks", description=__doc__,
+                                     formatter_class=argparse.RawDescriptionHelpFormatter)
+    parser.add_argument("action", choices=("create", "refresh"))
+    parser.add_argument("folder", type=Path, nargs="?", default=Path("notebooks"))
+    args = parser.parse_args(argv)
+    if args.action == "create":
+        paths = create(args.folder)
+    else:
+        create(args.folder)
+        paths = refresh(args.folder)
+    for p in paths:
+        print(f"{args.action}: {p}")
+    return 0
+
+
+if __name__ == "__main__":
+    sys.exit(main())

@@ -1,0 +1,135 @@
+"""Live bokeh figures that update by changing their data, never by re-rendering.
+
+A :class:`LivePlot` owns one bokeh figure with a named line per series, dashed rating or
+target lines, a hover readout with units and a legend that reads in print. Points whose
+regime is not the normal one for the curve are drawn dotted over the solid line, so the
+regime can be read along the curve; the hover names the regime of every point.
+
+Figures reach the notebook through :class:`jupyter_bokeh.BokehModel`, which uses the
+BokehJS bundled with the installed packages (no CDN).
+"""
+
+from __future__ import annotations
+
+import math
+from typing import Mapping, Sequence
+
+import numpy as np
+
+#: Okabe-Ito colour-blind-safe palette (Okabe and Ito, 2008), one entry per series
+PALETTE = ("#0072B2", "#D55E00", "#009E73", "#CC79A7", "#E69F00", "#56B4E9", "#000000")
+DASHES = ("solid", "solid", "solid", "solid", "solid", "solid", "solid")
+LIMIT_COLOUR = "#8a0010"
+
+
+class LivePlot:
+    """A bokeh figure with named series whose data can be replaced in place.
+
+    Parameters
+    ----------
+    title, x_label, y_label : str
+        Words on the figure.
+    x_unit, y_unit : str
+        Units shown in the axis labels and the hover readout.
+    series : sequence of str
+        Names of the lines, in legend order.
+    limits : sequence of str
+        Names of horizontal limit lines (ratings, targets).
+    normal_regime : str or None
+        Regime label drawn solid; other regimes are overdrawn dotted.
+    """
+
+    def __init__(self, title: str, x_label: str, x_unit: str, y_label: str, y_unit: str,
+                 series: Sequence[str], limits: Sequence[str] = (), normal_regime: str | None = None,
+                 width: int = 620, height: int = 330):
+        from bokeh.models import ColumnDataSource, HoverTool, Legend, Span, Label
+        from bokeh.plotting import figure
+
+        self.series = tuple(series)
+        self.limit_names = tuple(limits)
+        self.normal_regime = normal_regime
+        fig = figure(title=title, width=width, height=height, tools="pan,box_zoom,wheel_zoom,reset,save",
+                     x_axis_label=f"{x_label} [{x_unit}]", y_axis_label=f"{y_label} [{y_unit}]",
+                     toolbar_location="right")
+        fig.title.text_font_size = "12pt"
+        self.sources = {}
+        self.alt_sources = {}
+        items = []
+        for i, name in enumerate(self.series):
+            colour = PALETTE[i % len(PALETTE)]
+            src = ColumnDataSource({"x": [], "y": [], "y_alt": [], "regime": []})
+            line = fig.line("x", "y", source=src, line_width=2.5, color=colour)
+            alt = fig.line("x", "y_alt", source=src, line_width=5, color=colour, line_dash="dotted", alpha=0.9)
+            self.sources[name] = src
+            items.append((name, [line, alt]))
+        self.limit_spans = {}
+        self.limit_labels = {}
+        for name in self.limit_names:
+            span = Span(location=0, dimension="width", line_color=LIMIT_COLOUR, line_dash="dashed",
+                        line_width=1.5, visible=False)
+            fig.add_layout(span)
+            label = Label(x=5, y=0, x_units="screen", text=name, text_font_size="9pt",
+                          text_color=LIMIT_COLOUR, visible=False)
+            fig.add_layout(label)
+            self.limit_spans[name] = span
+            self.limit_labels[name] = label
+        fig.add_layout(Legend(items=items, location="top_left", click_policy="hide",
+                              label_text_font_size="10pt", background_fill_alpha=0.85))
+        fig.add_tools(HoverTool(tooltips=[
+            (x_label, f"@x{{0.[000]}} {x_unit}"),
+            (y_label, f"@y{{0.[000]}} {y_unit}"),
+            ("regime", "@regime"),
+        ], mode="mouse"))
+        self.figure = fig
+        self._widget = None
+
+    @property
+    def widget(self):
+        """The figure as a live Jupyter widget (created on first use)."""
+        if self._widget is None:
+            from jupyter_bokeh import BokehModel
+
+            self._widget = BokehModel(self.figure)
+            self._widget.add_class("wb-plot")
+        return self._widget
+
+    def update(self, x, ys: Mapping[str, np.ndarray], regimes: Mapping[str, Sequence[str]] | None = None,
+               limits: Mapping[str, float] | None = None, xs: Mapping[str, np.ndarray] | None = None) -> None:
+        """Replace the data of every series (and the limit lines) in place."""
+        for name in self.series:
+            src = self.sources[name]
+            if name not in ys:
+                src.data = {"x": [], "y": [], "y_alt": [], "regime": []}
+                continue
+            xx = np.asarray(xs[name] if xs and name in xs else x, dtype=float)
+            y = np.asarray(ys[name], dtype=float)
+            reg = list(regimes[name]) if regimes and name in regimes else [""] * len(y)
+            alt = np.full_like(y, np.nan)
+            if self.normal_regime is not None and regimes and name in regimes:
+                off = np.array([r != self.normal_regime for r in reg])
+                # widen by one point each side so short dotted runs stay visible and joined
+                grow = off | np.roll(off, 1) | np.roll(off, -1)
+                grow[0] = off[0] or (len(off) > 1 and off[1])
+                grow[-1] = off[-1] or (len(off) > 1 and off[-2])
+                alt = np.where(grow, y, np.nan)
+            src.data = {"x": xx.tolist(), "y": _clean(y), "y_alt": _clean(alt), "regime": reg}
+        for name, value in (limits or {}).items():
+            if name in self.limit_spans and value is not None and math.isfinite(value):
+                self.limit_spans[name].location = float(value)
+                self.limit_spans[name].visible = True
+                self.limit_labels[name].y = float(value)
+                self.limit_labels[name].y_units = "data"
+                self.limit_labels[name].visible = True
+
+    def data(self, name: str) -> dict:
+        """The current data of one series (for tests and benchmarks)."""
+        return dict(self.sources[name].data)
+
+
+def _clean(values: np.ndarray) -> list:
+    """List for bokeh with NaN kept as NaN (a gap in the line) and no infinities."""
+    v = np.where(np.isfinite(values), values, np.nan)
+    return v.tolist()
+
+
+__all__ = ["LivePlot", "PALETTE"]

@@ -1,0 +1,113 @@
+"""Results table, findings list and caution banner as HTML widgets that update in place.
+
+Both render the record's own forms (see :mod:`workbook.record`): a result is
+``{"value": number, "unit": "mm/s", "label": "Speed, cold oil"}`` and a finding is a
+mapping with ``rule_id, statement, quantity, value, limit, unit, margin, level, source,
+detail``. Levels are shown as a word and a mark, never by colour alone.
+"""
+
+from __future__ import annotations
+
+import html
+import math
+from typing import Iterable, Mapping
+
+import ipywidgets as W
+
+from .. import CAUTION
+
+LEVEL_MARK = {"fail": "&#10007; FAIL", "caution": "&#9650; CAUTION", "pass": "&#10003; PASS"}
+LEVEL_STYLE = {
+    "fail": "background:#fde7e9;color:#8a0010;font-weight:bold",
+    "caution": "background:#fff4d6;color:#6b4a00;font-weight:bold",
+    "pass": "color:#1d5c2e",
+}
+STALE_NOTE = ("<div class='wb-stale-note' style='color:#8a0010;font-weight:bold'>"
+              "&#9888; Out of date: an entry above was not accepted, so these are the last valid "
+              "results.</div>")
+
+
+def number(value, digits: int = 4) -> str:
+    """Format a number with ``digits`` significant figures; lists shortened."""
+    if value is None:
+        return "–"
+    if isinstance(value, bool):
+        return "yes" if value else "no"
+    if isinstance(value, (list, tuple)):
+        return ", ".join(number(v, digits) for v in value)
+    if isinstance(value, str):
+        return value
+    if not math.isfinite(value):
+        return "∞" if value > 0 else ("–∞" if value < 0 else "–")
+    if value == 0:
+        return "0"
+    return f"{value:.{digits}g}"
+
+
+def caution_html() -> str:
+    return ("<div class='wb-caution' style='border-left:4px solid #8a0010;padding:4px 10px;"
+            f"background:#fafafa'>{html.escape(CAUTION)}</div>")
+
+
+def results_html(results: Mapping[str, Mapping], title: str = "Results") -> str:
+    rows = "".join(
+        f"<tr><td>{html.escape(str(r.get('label', key)))}</td>"
+        f"<td style='text-align:right;font-family:monospace'>{html.escape(number(r.get('value')))}</td>"
+        f"<td>{html.escape(str(r.get('unit', '')))}</td></tr>"
+        for key, r in results.items()
+    )
+    return (f"<div class='wb-results'><b>{html.escape(title)}</b>"
+            "<table style='border-collapse:collapse;min-width:28em'>"
+            "<tr><th style='text-align:left'>Quantity</th><th>Value</th><th>Unit</th></tr>"
+            f"{rows}</table></div>")
+
+
+def findings_html(findings: Iterable[Mapping], title: str = "Checks") -> str:
+    items = list(findings)
+    counts = {lvl: sum(1 for f in items if f.get("level") == lvl) for lvl in ("fail", "caution", "pass")}
+    head = (f"<b>{html.escape(title)}</b>: {counts['fail']} fail, {counts['caution']} caution, "
+            f"{counts['pass']} pass")
+    rows = []
+    for f in items:
+        lvl = f.get("level", "pass")
+        margin = f.get("margin")
+        margin_text = "–" if margin is None else f"{margin * 100:+.0f} %"
+        unit = html.escape(str(f.get("unit", "")))
+        rows.append(
+            f"<tr class='wb-finding wb-level-{lvl}'>"
+            f"<td style='{LEVEL_STYLE.get(lvl, '')};white-space:nowrap'>{LEVEL_MARK.get(lvl, lvl)}</td>"
+            f"<td><code>{html.escape(str(f.get('rule_id', '')))}</code></td>"
+            f"<td>{html.escape(str(f.get('statement', '')))}"
+            + (f"<br><span style='color:#555'>{html.escape(str(f['detail']))}</span>" if f.get("detail") else "")
+            + "</td>"
+            f"<td style='text-align:right;font-family:monospace'>{html.escape(number(f.get('value')))} {unit}</td>"
+            f"<td style='text-align:right;font-family:monospace'>{html.escape(number(f.get('limit')))} {unit}</td>"
+            f"<td style='text-align:right'>{margin_text}</td>"
+            f"<td style='color:#444'>{html.escape(str(f.get('source', '')))}</td></tr>"
+        )
+    return (f"<div class='wb-findings'>{head}<table style='border-collapse:collapse'>"
+            "<tr><th>Level</th><th>Rule</th><th style='text-align:left'>Check</th><th>Value</th>"
+            "<th>Limit</th><th>Margin</th><th style='text-align:left'>Source</th></tr>"
+            + "".join(rows) + "</table></div>")
+
+
+class HtmlBox:
+    """An HTML widget with a stale flag; :meth:`update` replaces its content in place."""
+
+    def __init__(self, css_class: str):
+        self.widget = W.HTML("")
+        self.widget.add_class(css_class)
+        self._body = ""
+        self.stale = False
+
+    def update(self, body: str) -> None:
+        self._body = body
+        self.stale = False
+        self.widget.value = body
+
+    def mark_stale(self, stale: bool = True) -> None:
+        self.stale = stale
+        self.widget.value = (STALE_NOTE + f"<div style='opacity:0.55'>{self._body}</div>") if stale else self._body
+
+
+__all__ = ["results_html", "findings_html", "caution_html", "HtmlBox", "number", "LEVEL_MARK"]
