@@ -65,8 +65,7 @@ Worked example (checked by hand): an 80/45 cylinder extending against 20 kN with
 12 L/min compensated meter-out valve in the rod line, 21.6 L/min pump, relief 160/172 bar.
 The valve holds 12 L/min out of the annulus (A3 = 34.361 cm²): v = 2e-4/3.4361e-3 =
 0.05820 m/s; cap inflow 0.05820 × 50.265e-4 = 17.55 L/min, relief 21.6 - 17.55 = 4.05 L/min,
-pump pressure 160 + 12 × 4.05/21.6 = 162.25 bar; droop 2 % per 100 bar over the drop above
-8 bar makes the flow 1.5 % higher, which the solver includes:
+pump pressure 160 + 12 × 4.05/21.6 = 162.25 bar (droop set to zero for the hand check):
 
 >>> from workbook.cylinder import Cylinder
 >>> from workbook.fluid import Oil
@@ -703,9 +702,10 @@ def _regimes(axis, m, lay, opening, v, branch, p_d_dem, p_o_dem, q_relief, dp_fv
     out[relief_open] = RELIEF
     if lay.kind in ("meter-in", "meter-out"):
         out[relief_open] = METERING
-    if lay.kind == "bleed-off":
+    metered = lay.kind in ("meter-in", "meter-out") or (lay.kind == "bleed-off" and opening > 0.0)
+    if lay.kind == "bleed-off" and opening > 0.0:
         out[~relief_open] = METERING
-    if lay.kind in ("meter-in", "meter-out", "bleed-off") and getattr(axis.flow_valve, "compensated", False):
+    if metered and getattr(axis.flow_valve, "compensated", False):
         starved = axis.flow_valve.starved(dp_fv) & moving & (relief_open | (lay.kind == "bleed-off"))
         out[starved] = STARVED
     cav = (p_d_dem < pcav) | (p_o_dem < pcav)

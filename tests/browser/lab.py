@@ -15,6 +15,7 @@ from __future__ import annotations
 
 import json
 import os
+import re
 import secrets
 import shutil
 import signal
@@ -112,11 +113,14 @@ class LabServer:
     log_path: Path
     port: int
 
-    def lab_url(self, path: str = "") -> str:
-        return f"{self.url}lab/{path}?token={self.token}"
+    def lab_url(self, path: str = "", reset: bool = True) -> str:
+        """URL of the lab UI; ``reset`` starts from an empty workspace so a
+        test never sees tabs left open by an earlier test."""
+        query = ("reset&" if reset else "") + f"token={self.token}"
+        return f"{self.url}lab/{path}?{query}"
 
-    def notebook_url(self, name: str) -> str:
-        return self.lab_url("tree/" + urllib.parse.quote(name))
+    def notebook_url(self, name: str, reset: bool = True) -> str:
+        return self.lab_url("tree/" + urllib.parse.quote(name), reset=reset)
 
     def api(self, path: str, method: str = "GET", timeout: float = 5.0):
         req = urllib.request.Request(
@@ -458,6 +462,23 @@ _JS_STATE = (
 }"""
 )
 
+# Counts how often the current notebook's kernel has gone busy; the
+# listener is attached once per notebook panel.
+_JS_BUSY_COUNTER = (
+    "() => { const w = ("
+    + _JS_PANEL
+    + """)();
+  if (!w) return -1;
+  if (!w.__wbBusy) {
+    w.__wbBusy = {count: 0};
+    w.sessionContext.statusChanged.connect((_, status) => {
+      if (status === 'busy') w.__wbBusy.count++;
+    });
+  }
+  return w.__wbBusy.count;
+}"""
+)
+
 _JS_OUTPUT_ERRORS = (
     "() => { const w = ("
     + _JS_PANEL
@@ -539,24 +560,20 @@ def run_all_cells(page, via: str = "command", timeout_ms: int = 180_000) -> None
     Raises AssertionError if a cell produced an error output.
     """
     wait_for_idle(page)
+    before = page.evaluate(_JS_BUSY_COUNTER)
     if via == "menu":
-        page.locator(".lm-MenuBar-itemLabel", has_text="Run").first.click()
-        page.locator(".lm-Menu-itemLabel", has_text="Run All Cells").first.click()
+        page.locator(".lm-MenuBar-itemLabel", has_text=re.compile(r"^Run$")).first.click()
+        page.locator(
+            ".lm-Menu-content .lm-Menu-itemLabel", has_text=re.compile(r"^Run All Cells$")
+        ).first.click()
     elif via == "command":
         page.evaluate("() => window.jupyterapp.commands.execute('notebook:run-all-cells')")
     else:
         raise ValueError(f"unknown via={via!r}")
-    # Wait for execution to start (a prompt turns into [*] or the kernel goes busy)
-    # or, for fast notebooks, for every code cell to have an execution count.
+    # The kernel must have gone busy at least once since the command, so a
+    # still-idle kernel is not mistaken for a finished run.
     page.wait_for_function(
-        "() => { const w = window.jupyterapp.shell.currentWidget;"
-        " const k = w.sessionContext.session.kernel;"
-        " if (k.status === 'busy') return true;"
-        " const cells = w.content.model.cells; let n = 0;"
-        " for (let i = 0; i < cells.length; i++) { const c = cells.get(i);"
-        "   if (c.type === 'code' && c.sharedModel.source.trim() && !c.executionCount) n++; }"
-        " return n === 0; }",
-        timeout=30_000,
+        "(before) => (" + _JS_BUSY_COUNTER + ")() > before", arg=before, timeout=30_000
     )
     wait_for_idle(page, timeout_ms=timeout_ms, settle_ms=500)
     assert_no_cell_errors(page)

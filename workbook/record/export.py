@@ -79,7 +79,9 @@ def _input_rows(study: Study):
                 label = sec[key].label if sec else key
             except KeyError:
                 label = key
-            rows.append((label, key, _num(entry.get("value")), pretty_unit(entry.get("unit", ""))))
+            value = entry.get("value")
+            rows.append((label, key, "(not given)" if value is None else _num(value),
+                         pretty_unit(entry.get("unit", ""))))
         yield (sec.title if sec else sec_key), rows
 
 
@@ -116,17 +118,17 @@ def to_markdown(record: Record) -> str:
     c = _counts(record)
     out += ["Findings: " + ", ".join(f"{c[lvl]} {LEVEL_WORD[lvl]}" for lvl in LEVELS), ""]
     for n, (key, study) in enumerate(record.studies.items(), 1):
-        out += [f"## {n}. {_md(study.title or study.kind)}", "", f"Study `{_md(key)}`, kind `{_md(study.kind)}`.", ""]
+        out += [f"## {n}. {_md(study.title or study.kind)}", "", f"Study {_md(key)}, kind {_md(study.kind)}.", ""]
         if study.inputs:
             out += ["### Inputs", ""]
             for title, rows in _input_rows(study):
                 out += [f"**{_md(title)}**", ""]
                 out += _md_table(["Input", "Key", "Value", "Unit"],
-                                 [[_md(lbl), f"`{_md(k)}`", _md(v), _md(u)] for lbl, k, v, u in rows])
+                                 [[_md(lbl), _md(k), _md(v), _md(u)] for lbl, k, v, u in rows])
         if study.results:
             out += ["### Results", ""]
             out += _md_table(["Result", "Key", "Value", "Unit"],
-                             [[_md(r["label"]), f"`{_md(k)}`", _num(r["value"], 5), _md(pretty_unit(r["unit"]))]
+                             [[_md(r["label"]), _md(k), _num(r["value"], 5), _md(pretty_unit(r["unit"]))]
                               for k, r in study.results.items()])
         if study.findings:
             out += ["### Findings", ""]
@@ -134,7 +136,7 @@ def to_markdown(record: Record) -> str:
             for f in study.findings:
                 statement = _md(f["statement"]) + (f" ({_md(f['detail'])})" if f["detail"] else "")
                 unit = _md(pretty_unit(f["unit"]))
-                rows.append([f"{LEVEL_MARK[f['level']]} **{LEVEL_WORD[f['level']]}**", f"`{_md(f['rule_id'])}`",
+                rows.append([f"{LEVEL_MARK[f['level']]} **{LEVEL_WORD[f['level']]}**", _md(f["rule_id"]),
                              statement, f"{_num(f['value'], 5)} {unit}".strip() if f["value"] is not None else "",
                              f"{_num(f['limit'], 5)} {unit}".strip() if f["limit"] is not None else "",
                              _margin(f["margin"]), _md(f["source"])])
@@ -151,7 +153,7 @@ def to_markdown(record: Record) -> str:
         if study.notes:
             out += ["### Notes", ""] + [f"- {_md(t)}" for t in study.notes] + [""]
     if record.notes:
-        out += ["## Notes", ""] + [f"- {_md(t)}" for t in record.notes] + [""]
+        out += ["## Record notes", ""] + [f"- {_md(t)}" for t in record.notes] + [""]
     out += [f"_Written by workbook {_md(record.library_version)}, record schema version "
             f"{record.schema_version}._", ""]
     return "\n".join(out)
@@ -184,7 +186,11 @@ code {{ font-family: ui-monospace, Menlo, Consolas, monospace; font-size: .9em; 
 .level-fail {{ color: #000; }}
 .level-caution {{ color: #000; }}
 .level-pass {{ color: #333; font-weight: 600; }}
-tr.fail td {{ background: #f3f3f3; }}
+tr.row-fail td {{ background: #f3f3f3; }}
+table.inputs td:nth-child(1), table.inputs th:nth-child(1) {{ width: 42%; }}
+table.inputs td:nth-child(2), table.inputs th:nth-child(2) {{ width: 26%; }}
+table.inputs td:nth-child(3), table.inputs th:nth-child(3) {{ width: 18%; }}
+table.inputs {{ table-layout: fixed; }}
 .summary span {{ margin-right: 1.2rem; }}
 .meta {{ color: #444; font-size: .88rem; }}
 figure {{ margin: .6rem 0 1rem; }}
@@ -198,17 +204,18 @@ footer {{ margin-top: 2.5rem; border-top: 1px solid #000; padding-top: .4rem; fo
   h3, h4 {{ break-after: avoid; }}
   table, figure, .caution {{ break-inside: avoid; }}
   section.study {{ break-before: page; }}
-  tr.fail td {{ background: none; }}
+  tr.row-fail td {{ background: none; }}
 }}
 """
 
 
-def _table(head, rows, num_cols=(), row_classes=None) -> str:
-    out = ["<table><thead><tr>" + "".join(f"<th>{h}</th>" for h in head) + "</tr></thead><tbody>"]
+def _table(head, rows, num_cols=(), row_classes=None, cls="") -> str:
+    table_attr = f' class="{cls}"' if cls else ""
+    out = [f"<table{table_attr}><thead><tr>" + "".join(f"<th>{h}</th>" for h in head) + "</tr></thead><tbody>"]
     for i, row in enumerate(rows):
-        cls = f' class="{row_classes[i]}"' if row_classes else ""
+        row_attr = f' class="{row_classes[i]}"' if row_classes else ""
         cells = "".join(f'<td class="num">{c}</td>' if j in num_cols else f"<td>{c}</td>" for j, c in enumerate(row))
-        out.append(f"<tr{cls}>{cells}</tr>")
+        out.append(f"<tr{row_attr}>{cells}</tr>")
     out.append("</tbody></table>")
     return "".join(out)
 
@@ -227,12 +234,13 @@ def _study_html(n: int, key: str, study: Study) -> str:
             out.append(f"<h4>{_esc(title)}</h4>")
             out.append(_table(["Input", "Key", "Value", "Unit"],
                               [[_esc(lbl), f"<code>{_esc(k)}</code>", _esc(v), _esc(u)] for lbl, k, v, u in rows],
-                              num_cols=(2,)))
+                              num_cols=(2,), cls="inputs"))
     if study.results:
         out.append("<h3>Results</h3>")
         out.append(_table(["Result", "Key", "Value", "Unit"],
                           [[_esc(r["label"]), f"<code>{_esc(k)}</code>", _esc(_num(r["value"], 5)),
-                            _esc(pretty_unit(r["unit"]))] for k, r in study.results.items()], num_cols=(2,)))
+                            _esc(pretty_unit(r["unit"]))] for k, r in study.results.items()], num_cols=(2,),
+                          cls="inputs"))
     if study.findings:
         out.append("<h3>Findings</h3>")
         rows, classes = [], []
@@ -247,7 +255,7 @@ def _study_html(n: int, key: str, study: Study) -> str:
                          f"{_esc(_num(f['value'], 5))} {unit}".strip() if f["value"] is not None else "",
                          f"{_esc(_num(f['limit'], 5))} {unit}".strip() if f["limit"] is not None else "",
                          _esc(_margin(f["margin"])), _esc(f["source"])])
-            classes.append(f["level"])
+            classes.append(f"row-{f['level']}")
         out.append(_table(["Level", "Rule", "Statement", "Value", "Limit", "Margin", "Source"], rows,
                           num_cols=(3, 4, 5), row_classes=classes))
     if study.figures:
@@ -282,7 +290,7 @@ def to_html(record: Record) -> str:
     ]
     parts += [_study_html(n, key, s) for n, (key, s) in enumerate(record.studies.items(), 1)]
     if record.notes:
-        parts.append("<section><h2>Notes</h2><ul>" + "".join(f"<li>{_esc(t)}</li>" for t in record.notes)
+        parts.append("<section><h2>Record notes</h2><ul>" + "".join(f"<li>{_esc(t)}</li>" for t in record.notes)
                      + "</ul></section>")
     parts += ["</main>",
               f"<footer>Written by workbook {_esc(record.library_version)}, record schema version "

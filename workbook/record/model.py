@@ -64,6 +64,7 @@ FINDING_KEYS = ("rule_id", "statement", "quantity", "value", "limit", "unit", "m
                 "source", "detail")
 _FINDING_REQUIRED = ("rule_id", "statement", "level", "source")
 _FINDING_NUMBERS = ("value", "limit", "margin")
+_PLAIN = ("text", "choice", "flag")  # kinds stored without a unit
 _FIGURE_KEYS = ("title", "x_label", "y_label", "x", "series", "limits")
 
 
@@ -295,7 +296,7 @@ def _entry_from_si(f: Field, si: Any, where: str) -> dict:
         if si is None:
             f.parse(None)  # raises unless optional
             return {"value": None}
-        if not f.is_quantity:
+        if f.dimension in _PLAIN:
             return {"value": f.parse(si)}
         if f.dimension == "quantity_list":
             si_list = _numbers(si, where)
@@ -338,7 +339,7 @@ def _value_from_entry(f: Field, entry: Mapping, where: str):
     try:
         if value is None:
             return f.parse(None)
-        if not f.is_quantity:
+        if f.dimension in _PLAIN:
             return f.parse(value)
         unit = entry.get("unit", f.unit)
         if f.dimension == "quantity_list":

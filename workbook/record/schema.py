@@ -47,7 +47,7 @@ def field_entry_schema(f: Field) -> dict:
     """Schema of one stored input entry of field ``f``."""
     props: dict = {"value": _value_schema(f)}
     required = ["value"]
-    if f.is_quantity:
+    if f.dimension not in ("text", "choice", "flag"):
         props["unit"] = {"type": "string"}
         props["si"] = _si_schema(f)
         if not f.optional:

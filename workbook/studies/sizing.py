@@ -11,7 +11,7 @@ the drop and over the oil temperature range. The orifice barely notices the temp
 >>> values = {s.key: s.defaults() for s in inputs.AXIS_SECTIONS}
 >>> out = run(values)
 >>> out.results["orifice_drill"]["value"], out.results["orifice_drill"]["unit"]
-(1.5, 'mm')
+(2.45, 'mm')
 """
 
 from __future__ import annotations

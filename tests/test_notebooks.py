@@ -1,0 +1,65 @@
+"""The committed study notebooks: small, clean, and nbval really compares them."""
+
+import json
+import os
+import pathlib
+import re
+import shutil
+import subprocess
+import sys
+
+import pytest
+
+ROOT = pathlib.Path(__file__).resolve().parents[1]
+NOTEBOOKS = sorted((ROOT / "notebooks").glob("*.ipynb"))
+
+
+def test_four_studies_are_committed():
+    from workbook.tools.notebooks import STUDIES
+
+    assert [p.name for p in NOTEBOOKS] == sorted(STUDIES)
+
+
+@pytest.mark.parametrize("path", NOTEBOOKS, ids=lambda p: p.name)
+def test_notebook_is_small_and_clean(path):
+    text = path.read_text(encoding="utf-8")
+    assert len(text.encode()) < 500_000
+    nb = json.loads(text)
+    assert "widgets" not in nb.get("metadata", {}), "saved widget state makes notebooks heavy"
+    assert not re.search(r"0x[0-9a-f]{6,}", text), "memory address in a saved output"
+    assert str(ROOT) not in text and "/home/" not in text and "/tmp/" not in text, "absolute path"
+    assert "Caution" in nb["cells"][0]["source"]
+    summary = nb["cells"][-1]
+    assert "panel.summary()" in "".join(summary["source"])
+    assert summary["outputs"], "the summary cell must carry its output for nbval to compare"
+    for cell in nb["cells"]:
+        src = "".join(cell.get("source", ""))
+        if cell["cell_type"] == "code" and ("panel.show()" in src):
+            assert src.startswith("# NBVAL_IGNORE_OUTPUT"), "widget cells must not be compared"
+
+
+@pytest.mark.slow
+def test_nbval_bites_when_an_input_changes(tmp_path):
+    """Re-running a study with one input changed makes nbval's comparison fail."""
+    src = ROOT / "notebooks" / "1-restrictor-sizing.ipynb"
+    work = tmp_path / "nb"
+    shutil.copytree(ROOT / "notebooks" / "designs", work / "designs")
+    nb = json.loads(src.read_text(encoding="utf-8"))
+    changed = False
+    for cell in nb["cells"]:
+        text = "".join(cell["source"])
+        if "panel.set(" in text and "12 L/min" in text:
+            cell["source"] = text.replace("12 L/min", "14 L/min")
+            changed = True
+    assert changed, "the scripted-entry cell is where a regression change goes"
+    (work / src.name).write_text(json.dumps(nb), encoding="utf-8")
+    env = dict(os.environ, WORKBOOK_RECORDS_DIR=str(tmp_path / "records"))
+    cmd = [sys.executable, "-m", "pytest", "--nbval", "-q", "-p", "no:cacheprovider",
+           "--rootdir", str(work), str(work / src.name)]
+    changed_run = subprocess.run(cmd, cwd=work, env=env, capture_output=True, text=True, timeout=300)
+    assert changed_run.returncode == 1, changed_run.stdout[-2000:]
+    assert "14 L/min" in changed_run.stdout or "mismatch" in changed_run.stdout.lower()
+    # and the unchanged notebook passes the same run
+    shutil.copy(src, work / src.name)
+    same_run = subprocess.run(cmd, cwd=work, env=env, capture_output=True, text=True, timeout=300)
+    assert same_run.returncode == 0, same_run.stdout[-2000:]

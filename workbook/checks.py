@@ -1,0 +1,346 @@
+"""Design rules that turn the solutions of an axis into findings.
+
+Every rule is data (:class:`Rule`): an id of our own, a statement in plain words, the
+quantity it looks at, the sense of the limit (the value must stay at most / at least the
+limit), what happens when it is broken (fail, or only a caution), and its source: a
+standard or handbook by name, ``"common practice"``, or ``"from memory"``.
+
+:func:`evaluate` solves the axis over every load case, over the oil temperature range
+(``temp_min`` .. ``temp_max``), in both directions of motion, with the flow valve open and
+closed (``opening = 0``: the case people forget), and applies every rule that concerns the
+axis. A finding's ``margin`` is the distance to the limit as a fraction of the limit
+(negative when broken). Levels: ``"fail"`` when broken, ``"caution"`` when within the
+caution margin (``limits.pressure_margin`` for pressures, 10 % otherwise) or when a
+caution-only rule is broken, ``"pass"`` otherwise.
+
+Results are design estimates; confirm with component data sheets, ISO 4413, local codes
+and a qualified engineer (``workbook.CAUTION``).
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from typing import Callable, Mapping
+
+import numpy as np
+
+from . import CAUTION
+from .circuit import (CLOSED, HELD, RUNAWAY, STALLED, STARVED, Axis, Solution, solve)
+from .errors import InputError
+from .fluid import P_ATM
+from .inputs import LIMITS
+from .valve import BackPressureValve, CompensatedFlowValve, CounterbalanceValve
+
+LEVELS = ("fail", "caution", "pass")
+_BAR = 1e5
+
+#: overall efficiency of the pump used to turn hydraulic power into shaft power (from memory)
+PUMP_OVERALL_EFFICIENCY = 0.85
+#: number of oil temperatures evaluated between temp_min and temp_max
+N_TEMPERATURES = 5
+
+
+@dataclass(frozen=True)
+class Finding:
+    """The outcome of one rule on one axis (SI values)."""
+
+    rule_id: str
+    statement: str
+    quantity: str
+    value: float
+    limit: float
+    dimension: str
+    margin: float
+    level: str
+    source: str
+    detail: str = ""
+
+    @property
+    def unit(self) -> str:
+        """Alias: the dimension name of ``value`` and ``limit`` (see :mod:`workbook.units`)."""
+        return self.dimension
+
+
+@dataclass(frozen=True)
+class Rule:
+    """A design rule as data.
+
+    ``measure(ctx)`` returns ``(value, limit, detail)`` or ``None`` when the rule does not
+    concern the axis. ``sense`` is ``"max"`` (value at most limit) or ``"min"`` (at least).
+    ``broken`` is the level when the limit is crossed (``"fail"`` or ``"caution"``);
+    ``margin_key`` names the limit in ``limits`` that sets the caution band.
+    """
+
+    rule_id: str
+    statement: str
+    quantity: str
+    dimension: str
+    sense: str
+    source: str
+    measure: Callable[["_Context"], tuple | None]
+    broken: str = "fail"
+    margin_key: str | None = None
+
+
+class _Context:
+    """Every solution of one axis that the rules look at."""
+
+    def __init__(self, axis: Axis, limits: Mapping):
+        self.axis, self.limits = axis, limits
+        loads = np.asarray(axis.loads, dtype=float)[:, None]
+        temps = np.linspace(axis.temp_min, axis.temp_max, N_TEMPERATURES if axis.temp_max > axis.temp_min else 1)
+        self.temps = temps
+        self.cases: list[tuple[str, float, Solution]] = []
+        for direction in ("extend", "retract"):
+            for opening in (1.0, 0.0):
+                sol = solve(axis, loads, temps[None, :], direction, opening)
+                self.cases.append((direction, opening, sol))
+
+    def all(self):
+        return [s for _, _, s in self.cases]
+
+    def controlled_open(self) -> Solution:
+        return next(s for d, o, s in self.cases if d == self.axis.controlled and o == 1.0)
+
+    def worst(self, getter, fn=np.max):
+        """(value, description) of the extreme of ``getter(sol)`` over every case."""
+        best = None
+        for d, o, s in self.cases:
+            arr = np.asarray(getter(s), dtype=float)
+            idx = np.unravel_index(np.argmax(arr) if fn is np.max else np.argmin(arr), arr.shape)
+            val = float(arr[idx])
+            if best is None or (val > best[0] if fn is np.max else val < best[0]):
+                where = (f"{d}, valve {'closed' if o == 0.0 else 'open'}, load {float(s.load[idx]) / 1e3:g} kN, "
+                         f"oil {float(s.temperature[idx]) - 273.15:.0f} degC, {s.regime[idx]}")
+                best = (val, where)
+        return best
+
+
+def _pressure_rule(rule_id, what, getter, rating, rating_words, source):
+    def measure(ctx):
+        val, where = ctx.worst(getter)
+        return val, rating(ctx.axis), f"highest {what} at: {where}; limit: {rating_words}"
+    return Rule(rule_id, f"The {what} stays within the {rating_words} in every case, the valve-closed case "
+                         "included.", what, "pressure", "max", source, measure, margin_key="pressure_margin")
+
+
+def _cavitation_rule(rule_id, chamber, getter):
+    def measure(ctx):
+        val, where = ctx.worst(lambda s: getter(s) + P_ATM, np.min)
+        return val, ctx.limits["cavitation_abs"], f"lowest absolute pressure the {chamber} chamber is asked for at: {where}"
+    return Rule(rule_id, f"The {chamber} chamber never needs less than the cavitation limit (absolute).",
+                f"lowest {chamber} chamber pressure (absolute)", "pressure", "min",
+                "from memory (limit); force balance", measure)
+
+
+def _runaway(ctx):
+    n = tot = 0
+    where = ""
+    for d, o, s in ctx.cases:
+        bad = s.regime == RUNAWAY
+        n += int(bad.sum())
+        tot += bad.size
+        if bad.any() and not where:
+            i = np.unravel_index(np.argmax(bad), bad.shape)
+            where = f"e.g. {d}, load {float(s.load[i]) / 1e3:g} kN, oil {float(s.temperature[i]) - 273.15:.0f} degC"
+    return n / tot, 0.0, (f"{n} of {tot} points run away; {where}" if n else "no point runs away")
+
+
+def _starved(ctx):
+    v = ctx.axis.flow_valve
+    if not isinstance(v, CompensatedFlowValve):
+        return None
+    s = ctx.controlled_open()
+    moving = s.speed > 0
+    if not moving.any():
+        return 0.0, v.min_drop, "the controlled motion does not move at any load"
+    if ctx.axis.arrangement == "bleed-off":
+        dp = s.dp_flow_valve[moving]
+    else:
+        dp = np.where(moving, s.dp_flow_valve, np.inf)
+    val = float(np.min(dp))
+    n = int((s.regime == STARVED).sum())
+    return val, v.min_drop, f"smallest drop across the compensated valve in the controlled motion; {n} starved points"
+
+
+def _hold_pressure(ctx):
+    return float(np.max(ctx.axis.holding_pressure()))
+
+
+def _cb_holds(ctx):
+    h = ctx.axis.holding
+    if not isinstance(h, (CounterbalanceValve, BackPressureValve)):
+        return None
+    p = _hold_pressure(ctx)
+    return h.setting, p, (f"setting against the highest load-induced pressure in the {ctx.axis.holding_side} "
+                          f"chamber ({p / _BAR:.1f} bar)")
+
+
+def _cb_factor(ctx):
+    h = ctx.axis.holding
+    if not isinstance(h, CounterbalanceValve):
+        return None
+    f = ctx.limits["counterbalance_factor"]
+    p = _hold_pressure(ctx)
+    return h.setting, f * p, f"setting against {f:g} x the highest load-induced pressure ({p / _BAR:.1f} bar)"
+
+
+def _hold_rating(ctx):
+    h = ctx.axis.holding
+    if h is None:
+        return None
+    r = min(ctx.axis.cylinder.rated_pressure, ctx.axis.ratings.valve_rating, ctx.axis.ratings.hose_rating)
+    return h.setting, r, "setting against the lowest of cylinder, hose and valve ratings"
+
+
+def _heat(ctx):
+    drive = ctx.axis.supply.drive_power
+    if not math.isfinite(drive):
+        return None
+    val, where = ctx.worst(lambda s: np.where(s.opening > 0, s.loss_total, 0.0) + 0.0 * s.speed)
+    return val, ctx.limits["heat_share"] * drive, (f"throttling heat (valves, relief, return line) at: {where}; "
+                                                  f"drive {drive / 1e3:g} kW")
+
+
+def _drive(ctx):
+    drive = ctx.axis.supply.drive_power
+    if not math.isfinite(drive):
+        return None
+    val, where = ctx.worst(lambda s: s.input_power / PUMP_OVERALL_EFFICIENCY)
+    return val, drive, f"pump shaft power (hydraulic / {PUMP_OVERALL_EFFICIENCY:g}) at: {where}"
+
+
+def _line_rule(rule_id, line, limit_key, flow_getter, bore_attr, words):
+    def measure(ctx):
+        d = getattr(ctx.axis.ratings, bore_attr)
+        area = math.pi * d * d / 4.0
+        val, where = ctx.worst(lambda s: flow_getter(s) / area)
+        return val, ctx.limits[limit_key], f"mean velocity in the {line} line, bore {d * 1e3:g} mm, at: {where}"
+    return Rule(rule_id, f"The mean oil velocity in the {line} line stays at most {words}.",
+                f"{line} line velocity", "velocity", "max", "common practice", measure, broken="caution")
+
+
+def _speed(ctx):
+    a = ctx.axis
+    if a.target_speed is None:
+        return None
+    s = ctx.controlled_open()
+    dev = np.abs(s.speed - a.target_speed) / a.target_speed
+    i = np.unravel_index(np.argmax(dev), dev.shape)
+    return float(dev[i]), a.speed_tolerance, (f"worst speed {float(s.speed[i]) * 1e3:.1f} mm/s against target "
+                                              f"{a.target_speed * 1e3:g} mm/s at load {float(s.load[i]) / 1e3:g} kN, "
+                                              f"oil {float(s.temperature[i]) - 273.15:.0f} degC ({s.regime[i]})")
+
+
+def _stall(ctx):
+    s = ctx.controlled_open()
+    bad = np.isin(s.regime, (STALLED, HELD, CLOSED))
+    if bad.any():
+        i = np.unravel_index(np.argmax(bad), bad.shape)
+        where = f"e.g. load {float(s.load[i]) / 1e3:g} kN ({s.regime[i]})"
+    else:
+        where = "the controlled motion moves at every load and temperature"
+    return float(bad.mean()), 0.0, where
+
+
+#: every rule, in the order the record lists them
+RULES: tuple[Rule, ...] = (
+    _pressure_rule("P-CAP-RATING", "cap chamber pressure", lambda s: s.p1, lambda a: a.cylinder.rated_pressure,
+                   "cylinder rated pressure", "user's data sheet; ISO 4413 (no component above its rating)"),
+    _pressure_rule("P-ROD-RATING", "rod chamber pressure", lambda s: s.p3, lambda a: a.cylinder.rated_pressure,
+                   "cylinder rated pressure", "user's data sheet; ISO 4413 (no component above its rating)"),
+    _pressure_rule("P-HOSE-RATING", "line pressure", lambda s: np.maximum(np.maximum(s.p1, s.p3), s.p_pump),
+                   lambda a: a.ratings.hose_rating, "hose rated pressure",
+                   "user's data sheet; ISO 4413 (no component above its rating)"),
+    _pressure_rule("P-VALVE-RATING", "valve port pressure",
+                   lambda s: np.maximum(np.maximum(np.maximum(s.p1, s.p3), s.p_pump), s.p_mid),
+                   lambda a: a.ratings.valve_rating, "valve rated pressure",
+                   "user's data sheet; ISO 4413 (no component above its rating)"),
+    _cavitation_rule("CAV-CAP", "cap", lambda s: s.p1_demand),
+    _cavitation_rule("CAV-ROD", "rod", lambda s: s.p3_demand),
+    Rule("RUNAWAY", "No overrunning load runs ahead of the oil supply (the circuit restrains it).",
+         "share of points running away", "dimensionless", "max", "common practice; ISO 4413 (load holding)", _runaway),
+    Rule("FV-STARVED", "The compensated flow valve keeps at least its minimum working drop over the load range.",
+         "smallest drop across the compensated valve", "pressure", "min", "common practice", _starved,
+         margin_key="pressure_margin"),
+    Rule("H-HOLDS", "The holding valve setting is above the highest load-induced pressure it must hold.",
+         "holding valve setting", "pressure", "min", "force balance", _cb_holds),
+    Rule("H-CB-FACTOR", "The counterbalance setting is at least the setting factor times the highest "
+         "load-induced pressure.", "counterbalance setting", "pressure", "min", "common practice", _cb_factor,
+         broken="caution"),
+    Rule("H-RATING", "The holding valve setting stays within the cylinder, hose and valve ratings.",
+         "holding valve setting", "pressure", "max", "user's data sheet", _hold_rating,
+         margin_key="pressure_margin"),
+    Rule("HEAT-SHARE", "Throttling heat stays within the allowed share of the installed drive power.",
+         "throttling heat", "power", "max", "common practice", _heat, broken="caution"),
+    Rule("DRIVE-POWER", "The pump never needs more shaft power than the installed drive.",
+         "pump shaft power", "power", "max", "from memory (pump overall efficiency 0.85)", _drive),
+    _line_rule("V-SUCTION", "suction", "v_suction", lambda s: s.q_pump, "suction_line_bore", "about 1.2 m/s"),
+    _line_rule("V-PRESSURE", "pressure", "v_pressure", lambda s: s.q_pump, "pressure_line_bore", "3 to 6 m/s"),
+    _line_rule("V-RETURN", "return", "v_return", lambda s: s.q_cylinder_out + s.q_relief + s.q_bleed,
+               "return_line_bore", "2 to 4 m/s (relief taken to drain into it)"),
+    Rule("SPEED-TARGET", "The controlled motion keeps its target speed within tolerance over every load and "
+         "temperature.", "largest speed deviation", "dimensionless", "max", "demo scenario target; design brief",
+         _speed),
+    Rule("SUPPLY-STALL", "The supply moves the controlled motion at every load case (the relief setting is above "
+         "the load pressure).", "share of points stalled or held", "dimensionless", "max", "force balance", _stall),
+)
+
+
+def default_limits() -> dict:
+    """The check limits of the ``limits`` section, SI, with their declared defaults."""
+    return LIMITS.defaults()
+
+
+def _limits(limits: Mapping | None) -> dict:
+    out = default_limits()
+    for k, v in dict(limits or {}).items():
+        if k not in out:
+            raise InputError(f"limits.{k}", "an unknown entry", "one of " + ", ".join(out))
+        try:
+            fv = float(v)
+        except (TypeError, ValueError):
+            raise InputError(f"limits.{k}", repr(v), LIMITS[k].allowed()) from None
+        if not math.isfinite(fv):
+            raise InputError(f"limits.{k}", v, LIMITS[k].allowed())
+        out[k] = fv
+    return out
+
+
+def _level(rule: Rule, value: float, limit: float, limits: Mapping) -> tuple[float, str]:
+    scale = abs(limit) if limit != 0 else 1.0
+    margin = (limit - value) / scale if rule.sense == "max" else (value - limit) / scale
+    band = limits[rule.margin_key] if rule.margin_key else 0.10
+    if margin < -1e-12:
+        return margin, rule.broken
+    if limit != 0 and margin < band:
+        return margin, "caution"
+    return margin, "pass"
+
+
+def evaluate(axis: Axis, limits: Mapping | None = None) -> list[Finding]:
+    """Every rule that concerns ``axis``, sorted fail, caution, pass (then rule order).
+
+    ``limits`` overrides entries of the ``limits`` section (SI values, keys as in
+    :data:`workbook.inputs.LIMITS`).
+    """
+    lim = _limits(limits)
+    ctx = _Context(axis, lim)
+    out = []
+    for rule in RULES:
+        res = rule.measure(ctx)
+        if res is None:
+            continue
+        value, limit, detail = res
+        value, limit = float(value), float(limit)
+        if not (math.isfinite(value) and math.isfinite(limit)):
+            raise RuntimeError(f"rule {rule.rule_id} produced a non-finite value")  # pragma: no cover
+        margin, level = _level(rule, value, limit, lim)
+        out.append(Finding(rule.rule_id, rule.statement, rule.quantity, value, limit, rule.dimension, margin, level,
+                           rule.source, detail))
+    order = {lv: i for i, lv in enumerate(LEVELS)}
+    return sorted(out, key=lambda f: order[f.level])
+
+
+__all__ = ["Finding", "Rule", "RULES", "evaluate", "default_limits", "LEVELS", "CAUTION", "PUMP_OVERALL_EFFICIENCY"]

@@ -1,0 +1,42 @@
+"""Shared pieces of the axis studies: the axis from values, load sweeps, regime text."""
+
+from __future__ import annotations
+
+import numpy as np
+
+from ..circuit import Axis, axis_from_values
+from ..errors import InputError
+
+#: the inputs that describe an axis for the solver (each study adds its own)
+AXIS_FIELDS = (
+    ("cylinder", "bore"), ("cylinder", "rod"), ("cylinder", "rated_pressure"),
+    ("supply", "displacement"), ("supply", "shaft_speed"), ("supply", "volumetric_efficiency"),
+    ("supply", "pump_flow"), ("supply", "relief_cracking"), ("supply", "relief_full_flow"), ("supply", "drive_power"),
+    ("operation", "loads"), ("operation", "friction"), ("operation", "temp_min"), ("operation", "temp_max"),
+    ("operation", "tank_pressure"), ("operation", "target_speed"), ("operation", "speed_tolerance"),
+    ("oil", "grade"), ("oil", "nu40"), ("oil", "nu100"),
+)
+
+
+def build_axis(values) -> Axis:
+    """The solver's axis for ``values``; errors name the design field."""
+    return axis_from_values(values)
+
+
+def sweep(values, n: int | None = None) -> np.ndarray:
+    """Loads of the sweep, N: from ``study.load_min`` to ``study.load_max`` (and the load cases)."""
+    st = values["study"]
+    lo, hi = st["load_min"], st["load_max"]
+    if not lo < hi:
+        raise InputError("study.load_max", f"{hi / 1e3:g} kN", f"a load above the lowest sweep load ({lo / 1e3:g} kN)")
+    n = int(n or st.get("points", 400))
+    return np.linspace(lo, hi, n)
+
+
+def regime_list(sol) -> list[str]:
+    return [str(r) for r in np.asarray(sol.regime).ravel()]
+
+
+def mid_temperature(values) -> float:
+    op = values["operation"]
+    return 0.5 * (op["temp_min"] + op["temp_max"])

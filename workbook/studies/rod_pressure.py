@@ -1,0 +1,164 @@
+"""Rod-side pressure check: every operating case against the cylinder, hose and valve ratings.
+
+Cases, over the load sweep and both ends of the oil temperature range (the higher pressure
+of the two is kept):
+
+* extending and retracting with the flow valve as designed;
+* the controlled motion with the flow valve fully closed (opening 0). With meter-out the
+  trapped chamber then carries the supply pressure times the area ratio, plus a pulling
+  load over its area (common practice)::
+
+      p3 = (p_pump * A1 - F) / A3          (closed meter-out valve in the rod line, extending)
+
+When a case exceeds a rating the study says what would fix it: a rod-side relief valve set
+below the lowest rating, the smallest change of rod (area ratio) that keeps the closed-valve
+pressure inside the ratings, or the meter-in arrangement.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import math
+
+import numpy as np
+
+from ..circuit import METERING, solve
+from ..cylinder import ISO3320_RODS_MM
+from .base import Outcome, curve, finding, grade, result
+from .common import AXIS_FIELDS, build_axis, regime_list, sweep
+
+KIND = "rod-pressure"
+TITLE = "Rod-side pressure check"
+PURPOSE = ("Chamber pressures in every operating case, including the flow valve closed and the "
+           "overrunning load, in both directions, against the cylinder, hose and valve ratings.")
+NORMAL_REGIME = None
+
+FIELDS = AXIS_FIELDS + (
+    ("cylinder", "stroke"),
+    ("flow_valve", "arrangement"), ("flow_valve", "direction"), ("flow_valve", "kind"), ("flow_valve", "diameter"),
+    ("flow_valve", "length"), ("flow_valve", "cd"), ("flow_valve", "seat_diameter"), ("flow_valve", "half_angle"),
+    ("flow_valve", "turns"), ("flow_valve", "pitch"), ("flow_valve", "setting"), ("flow_valve", "compensator_drop"),
+    ("flow_valve", "min_drop"), ("flow_valve", "droop"), ("flow_valve", "check_cracking"),
+    ("holding", "kind"), ("holding", "side"), ("holding", "setting"), ("holding", "pilot_ratio"),
+    ("holding", "gradient"), ("holding", "check_cracking"),
+    ("ratings", "hose_rating"), ("ratings", "valve_rating"), ("limits", "pressure_margin"),
+    ("study", "load_min"), ("study", "load_max"), ("study", "points"),
+)
+
+
+def _worst(sol, name):
+    """Highest value over the temperature axis (axis 1) of a (loads, temps) solution field."""
+    return np.max(np.asarray(getattr(sol, name)), axis=1)
+
+
+def cases(values):
+    """Solve every case; return ``{case: (p1, p3, regimes)}`` over the sweep and the sweep loads."""
+    axis = build_axis(values)
+    op = values["operation"]
+    loads = sweep(values)
+    temps = np.array([op["temp_min"], op["temp_max"]])
+    out = {}
+    for direction in ("extend", "retract"):
+        sol = solve(axis, loads[:, None], temps[None, :], direction=direction)
+        out[f"{direction}"] = (_worst(sol, "p1"), _worst(sol, "p3"), [str(r) for r in np.asarray(sol.regime)[:, 0]])
+    if axis.arrangement != "bleed-off":
+        sol = solve(axis, loads[:, None], temps[None, :], opening=0.0)
+        out[f"{axis.controlled}, valve closed"] = (_worst(sol, "p1"), _worst(sol, "p3"),
+                                                    [str(r) for r in np.asarray(sol.regime)[:, 0]])
+    return axis, loads, out
+
+
+def largest_safe_rod(axis, p_supply: float, pull: float, rating: float) -> float | None:
+    """Largest ISO 3320 rod (m) keeping the closed meter-out rod pressure within ``rating``.
+
+    From ``p3 = (p A1 + pull) / A3 <= rating``: ``A3 >= (p A1 + pull)/rating``, so
+    ``d <= sqrt(D² - 4 (p A1 + pull)/(pi rating))``. None if no rod is small enough.
+    """
+    a1 = axis.cylinder.a1
+    need = (p_supply * a1 + max(pull, 0.0)) / rating
+    rest = axis.cylinder.bore ** 2 - 4.0 * need / math.pi
+    if rest <= 0:
+        return None
+    d_max = math.sqrt(rest)
+    fits = [r / 1000.0 for r in ISO3320_RODS_MM if r / 1000.0 <= d_max]
+    return fits[-1] if fits else None
+
+
+def run(values) -> Outcome:
+    axis, loads, solved = cases(values)
+    rt = values["ratings"]
+    margin_share = values["limits"]["pressure_margin"]
+    ratings = {
+        "cylinder rating": axis.cylinder.rated_pressure,
+        "hose rating": rt["hose_rating"],
+        "valve rating": rt["valve_rating"],
+    }
+    lowest_name = min(ratings, key=ratings.get)
+    lowest = ratings[lowest_name]
+    res = {"area_ratio": {"value": axis.cylinder.phi, "unit": "", "label": "Area ratio A1/A3"}}
+    findings = []
+    worst_case = None
+    for case, (p1, p3, regimes) in solved.items():
+        for chamber, p in (("cap", p1), ("rod", p3)):
+            i = int(np.argmax(p))
+            key = f"{case.replace(', ', '_').replace(' ', '_')}_{chamber}"
+            res[f"p_{key}"] = result(f"Highest {chamber} pressure, {case}", float(p[i]), "pressure", "bar")
+            if worst_case is None or p[i] > worst_case[0]:
+                worst_case = (float(p[i]), case, chamber, float(loads[i]))
+    # one finding per chamber and rating, at the worst case
+    for chamber in ("cap", "rod"):
+        idx = 0 if chamber == "cap" else 1
+        best = max(((float(np.max(v[idx])), c, float(loads[int(np.argmax(v[idx]))])) for c, v in solved.items()))
+        value, case, at_load = best
+        for rname, rvalue in ratings.items():
+            level, margin = grade(value, rvalue, margin_share)
+            findings.append(finding(
+                f"RP-{chamber.upper()}-{rname.split()[0].upper()}",
+                f"{chamber.capitalize()} chamber pressure stays within the {rname} in every case",
+                f"highest {chamber} pressure", value, rvalue, "pressure", "bar", level,
+                "user's data sheet rating; caution margin common practice", margin,
+                detail=f"worst case: {case} at {at_load / 1e3:.3g} kN"))
+    # what to change when the rod side fails
+    p_rod_max = max(float(np.max(v[1])) for v in solved.values())
+    if p_rod_max > lowest * (1 - margin_share):
+        setting = lowest / (1 + margin_share)
+        res["rod_relief_setting"] = result("Rod-side relief setting that would protect the lowest rating",
+                                           setting, "pressure", "bar")
+        pull = max(-float(np.min(loads)), 0.0)
+        rod = largest_safe_rod(axis, axis.supply.relief.full_flow, pull, lowest)
+        advice = [f"add a rod-side relief valve set at about {setting / 1e5:.0f} bar "
+                  f"(below the {lowest_name})"]
+        if rod is not None and rod < axis.cylinder.rod:
+            res["largest_safe_rod"] = result("Largest ISO 3320 rod keeping the closed-valve pressure inside the "
+                                             "lowest rating", rod, "length", "mm")
+            advice.append(f"or a thinner rod of {rod * 1e3:g} mm (area ratio "
+                          f"{axis.cylinder.bore ** 2 / (axis.cylinder.bore ** 2 - rod ** 2):.2f})")
+        if axis.arrangement == "meter-out":
+            meter_in = dataclasses.replace(axis, arrangement="meter-in")
+            s = solve(meter_in, loads, axis.temp_min, opening=0.0)
+            p = float(np.max(np.asarray(s.p3)))
+            res["meter_in_closed_rod"] = result("Highest rod pressure with meter-in, valve closed", p, "pressure", "bar")
+            advice.append(f"or meter-in, where the closed valve leaves the rod side at {p / 1e5:.0f} bar "
+                          "(but meter-in cannot hold an overrunning load without a holding valve)")
+        findings.append(finding(
+            "RP-REMEDY", "What to change: " + "; ".join(advice), "highest rod pressure", p_rod_max, lowest,
+            "pressure", "bar", "caution" if p_rod_max <= lowest else "fail",
+            "common practice", (lowest - p_rod_max) / lowest))
+    series = {}
+    regimes = {}
+    for case, (p1, p3, reg) in solved.items():
+        series[f"cap, {case}"] = curve(p1 / 1e5)
+        series[f"rod, {case}"] = curve(p3 / 1e5)
+        regimes[f"cap, {case}"] = reg
+        regimes[f"rod, {case}"] = reg
+    figures = {
+        "chamber_pressure_vs_load": {
+            "title": "Chamber pressures against load (higher of cold and warm oil)",
+            "x_label": "Load [kN]", "y_label": "Pressure [bar]", "x": curve(loads / 1e3),
+            "series": series, "limits": {k: v / 1e5 for k, v in ratings.items()},
+        },
+    }
+    return Outcome(KIND, TITLE, values, FIELDS, res, findings, figures, {"chamber_pressure_vs_load": regimes})
+
+
+__all__ = ["KIND", "TITLE", "PURPOSE", "FIELDS", "run", "cases", "largest_safe_rod"]

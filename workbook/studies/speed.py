@@ -1,0 +1,164 @@
+"""Load sensitivity of speed: orifice, long throttle and pressure-compensated valve compared.
+
+The three candidates are sized to the same duty: the target speed of the controlled motion
+at the reference load (the middle load case) and the sizing temperature. The compensated
+valve is set to the flow that the target speed needs at the valve; its solved pressure drop
+at the reference load is then the drop at which the orifice and the throttle are sized, so
+that all three pass the same point and differ only in how they follow the load:
+
+* a fixed restrictor's flow follows the drop, which moves with the load (orifice: √Δp;
+  laminar throttle: Δp and the viscosity);
+* the compensated valve holds its flow until its drop falls below the minimum working drop
+  (compensator starved), then behaves as a fixed orifice.
+
+Figure of merit: the speed variation ``(v_max - v_min) / v_target`` over the load cases and
+the oil temperature range, for each candidate (common practice).
+"""
+
+from __future__ import annotations
+
+import dataclasses
+
+import numpy as np
+
+from .. import restrictor as rs
+from ..circuit import METERING, solve
+from ..errors import InputError
+from ..valve import CheckValve, CompensatedFlowValve, RestrictorValve
+from .base import Outcome, curve, finding, grade, ratio_result, result
+from .common import AXIS_FIELDS, build_axis, regime_list, sweep
+
+KIND = "speed-vs-load"
+TITLE = "Load sensitivity of speed"
+PURPOSE = ("Speed against load for an orifice, a long throttle and a pressure-compensated valve sized "
+           "to the same duty, in the chosen metering arrangement, with pump pressure, losses and the "
+           "speed variation over the load range.")
+NORMAL_REGIME = METERING
+
+FIELDS = AXIS_FIELDS + (
+    ("flow_valve", "arrangement"), ("flow_valve", "direction"), ("flow_valve", "cd"), ("flow_valve", "length"),
+    ("flow_valve", "compensator_drop"), ("flow_valve", "min_drop"), ("flow_valve", "droop"),
+    ("flow_valve", "check_cracking"),
+    ("holding", "kind"), ("holding", "side"), ("holding", "setting"), ("holding", "pilot_ratio"),
+    ("holding", "gradient"), ("holding", "check_cracking"),
+    ("study", "design_temp"), ("study", "load_min"), ("study", "load_max"), ("study", "points"),
+)
+
+CANDIDATES = ("orifice", "long throttle", "compensated valve")
+SHORT = {"orifice": "orifice", "long throttle": "throttle", "compensated valve": "compensated"}
+
+
+def valve_flow_for_speed(axis, speed: float) -> float:
+    """Flow through the flow valve at ``speed`` of the controlled motion, m³/s."""
+    c = axis.cylinder
+    ext = axis.controlled == "extend"
+    a_drive, a_driven = (c.a1, c.a3) if ext else (c.a3, c.a1)
+    if axis.arrangement == "meter-in":
+        return speed * a_drive
+    if axis.arrangement == "meter-out":
+        return speed * a_driven
+    q = axis.supply.flow - speed * a_drive
+    if q <= 0:
+        raise InputError("operation.target_speed", f"{speed * 1e3:g} mm/s",
+                         f"a speed the pump can fill with flow to spare for bleed-off "
+                         f"(at most {axis.supply.flow / a_drive * 1e3:.4g} mm/s)")
+    return q
+
+
+def candidates(values):
+    """The three sized axes and their sizes: ``{name: (axis, size_result_entries)}``."""
+    base = build_axis(values)
+    fv, op, st = values["flow_valve"], values["operation"], values["study"]
+    t = st["design_temp"]
+    base.oil.check_temperature(t, "study.design_temp")
+    rho, mu = float(base.oil.density(t)), float(base.oil.dynamic_viscosity(t))
+    v_target = op["target_speed"]
+    q_valve = valve_flow_for_speed(base, v_target)
+    c = base.cylinder
+    a_drive = c.a1 if base.controlled == "extend" else c.a3
+    if v_target * a_drive > base.supply.flow:
+        raise InputError("operation.target_speed", f"{v_target * 1e3:g} mm/s",
+                         f"a speed the pump ({base.supply.flow * 6e4:.4g} L/min) can fill, at most "
+                         f"{base.supply.flow / a_drive * 1e3:.4g} mm/s")
+    loads = np.asarray(op["loads"], dtype=float)
+    f_ref = float(np.median(loads))
+    check = CheckValve(fv["check_cracking"])
+    comp = CompensatedFlowValve.from_setting(q_valve, float(base.oil.density(313.15)), cd=fv["cd"],
+                                             compensator_drop=fv["compensator_drop"], min_drop=fv["min_drop"],
+                                             droop=fv["droop"], check=check)
+    axis_c = dataclasses.replace(base, flow_valve=comp)
+    ref = solve(axis_c, f_ref, t)
+    dp_ref = float(ref.dp_flow_valve)
+    q_ref = float(ref.q_flow_valve)
+    if not (dp_ref > 0 and q_ref > 0):
+        raise InputError("operation.loads", f"a middle load of {f_ref / 1e3:g} kN",
+                         "a reference load at which the axis moves with the valve metering "
+                         f"(it is {str(ref.regime)} there)")
+    d_orifice = float(rs.orifice_diameter(q_ref, dp_ref, rho, mu, cd=fv["cd"]).diameter)
+    d_throttle = float(rs.throttle_diameter(q_ref, dp_ref, rho, mu, fv["length"]).diameter)
+    axis_o = dataclasses.replace(base, flow_valve=RestrictorValve(rs.SharpOrifice(d_orifice, cd=fv["cd"]), check,
+                                                                 kind="orifice"))
+    axis_t = dataclasses.replace(base, flow_valve=RestrictorValve(rs.LongThrottle(d_throttle, fv["length"]), check,
+                                                                 kind="throttle"))
+    sizes = {
+        "reference_load": result("Reference load (middle load case)", f_ref, "force", "kN"),
+        "reference_drop": result("Valve drop at the reference load", dp_ref, "pressure", "bar"),
+        "compensated_setting": result("Compensated valve setting", q_valve, "flow", "L/min"),
+        "orifice_bore": result("Orifice bore for the same duty", d_orifice, "length", "mm"),
+        "throttle_bore": result("Throttle bore for the same duty", d_throttle, "length", "mm"),
+    }
+    return {"orifice": axis_o, "long throttle": axis_t, "compensated valve": axis_c}, sizes
+
+
+def run(values) -> Outcome:
+    axes, res = candidates(values)
+    op, st = values["operation"], values["study"]
+    t = st["design_temp"]
+    loads = sweep(values)
+    cases = np.asarray(op["loads"], dtype=float)
+    temps = np.array([op["temp_min"], op["temp_max"]])
+    v_target = op["target_speed"]
+    tol = op["speed_tolerance"]
+    sols = {name: solve(ax, loads, t) for name, ax in axes.items()}
+    grid = {name: solve(ax, cases[:, None], temps[None, :]) for name, ax in axes.items()}
+    findings = []
+    for name, g in grid.items():
+        v = np.asarray(g.speed)
+        spread = float((v.max() - v.min()) / v_target)
+        key = SHORT[name]
+        res[f"{key}_variation"] = ratio_result(f"Speed variation, {name}", spread, percent=True)
+        res[f"{key}_speed_low"] = result(f"Slowest speed, {name}", float(v.min()), "velocity", "mm/s")
+        res[f"{key}_speed_high"] = result(f"Fastest speed, {name}", float(v.max()), "velocity", "mm/s")
+        level, margin = grade(spread, tol, 0.25 * tol)
+        regs = sorted(set(regime_list(g)) - {METERING})
+        findings.append(finding(
+            f"SP-VAR-{key.upper()}", f"Speed with the {name} stays within the tolerance over the load cases "
+            "and the oil temperature range", f"speed variation, {name}", spread, tol, "dimensionless", "%",
+            level, "common practice", margin,
+            detail=("regimes met besides metering: " + ", ".join(regs)) if regs else "metering at every case"))
+    figures = {
+        "speed_vs_load": {
+            "title": f"Speed against load, {values['flow_valve']['arrangement']}, "
+                     f"{values['flow_valve']['direction']}ing",
+            "x_label": "Load [kN]", "y_label": "Speed [mm/s]", "x": curve(loads / 1e3),
+            "series": {name: curve(np.asarray(s.speed) * 1e3) for name, s in sols.items()},
+            "limits": {"target speed": v_target * 1e3},
+        },
+        "pump_pressure_vs_load": {
+            "title": "Pump pressure against load", "x_label": "Load [kN]", "y_label": "Pump pressure [bar]",
+            "x": curve(loads / 1e3),
+            "series": {name: curve(np.asarray(s.p_pump) / 1e5) for name, s in sols.items()},
+            "limits": {"relief cracking": axes["orifice"].supply.relief.cracking / 1e5},
+        },
+        "losses_vs_load": {
+            "title": "Throttling heat against load", "x_label": "Load [kN]", "y_label": "Heat [kW]",
+            "x": curve(loads / 1e3),
+            "series": {name: curve(np.asarray(s.loss_total) / 1e3) for name, s in sols.items()},
+            "limits": {"drive power": values["supply"]["drive_power"] / 1e3},
+        },
+    }
+    regimes = {key: {name: regime_list(s) for name, s in sols.items()} for key in figures}
+    return Outcome(KIND, TITLE, values, FIELDS, res, findings, figures, regimes)
+
+
+__all__ = ["KIND", "TITLE", "PURPOSE", "FIELDS", "run", "candidates"]
