@@ -136,7 +136,8 @@ def test_meter_in_cannot_hold_overrunning_load_meter_out_can():
     assert float(mi.p1) + P_ATM >= 0.0 and float(mi.p1_demand) + P_ATM < 0.3e5
     mo = solve(axis(arrangement="meter-out"), pulling, T40)
     assert str(mo.regime) == METERING
-    assert float(mo.q_cylinder_out) == pytest.approx(12 * LPM, rel=0.05)
+    dp = float(mo.dp_flow_valve)            # setting with its droop above the minimum drop (valve model)
+    assert float(mo.q_cylinder_out) == pytest.approx(12 * LPM * (1 + 0.02 * (dp - 8e5) / 100e5), rel=1e-9)
 
 
 def test_meter_out_small_pump_cavitates_but_valve_sets_speed():
@@ -276,10 +277,15 @@ def test_conservation_and_limits(cfg, direction, kind, loads, temp, opening):
 def test_speed_continuous_in_load(cfg, direction):
     # regimes change continuously: no jump in speed between neighbouring loads (common practice)
     ax = make(*cfg)
-    loads = np.linspace(-60e3, 90e3, 6001)
-    s = solve(ax, loads, T40, direction)
-    jump = np.max(np.abs(np.diff(s.speed)))
-    assert jump < 0.01 * (QP / min(A1, A3))
+    jumps = []
+    for n in (3001, 48001):
+        loads = np.linspace(-60e3, 90e3, n)
+        jumps.append(np.max(np.abs(np.diff(solve(ax, loads, T40, direction).speed))))
+    v_scale = QP / min(A1, A3)
+    # a jump that does not shrink when the load grid is refined 16-fold would be a discontinuity;
+    # the square-root law of a starved compensator near zero drop shrinks like sqrt(step)
+    assert jumps[1] < 0.03 * v_scale
+    assert jumps[1] <= 0.5 * jumps[0] or jumps[1] < 1e-4 * v_scale
 
 
 # ----------------------------------------------------------------- building from inputs, bad input
@@ -300,7 +306,10 @@ def test_axis_from_default_values():
 
 @pytest.mark.parametrize("over,field", [
     ({"cylinder": {"rod": 0.08}}, "rod"),
-    ({"flow_valve": {"setting": 30 * LPM}}, "flow_valve.setting"),
+    # meter-out retracting passes cap oil: the pump (21.6 L/min) drives at most 21.6 x A1/A3 = 31.6 L/min
+    ({"flow_valve": {"setting": 35 * LPM}}, "flow_valve.setting"),
+    # meter-in passes pump oil: at most the pump flow
+    ({"flow_valve": {"setting": 25 * LPM, "arrangement": "meter-in"}}, "flow_valve.setting"),
     ({"holding": {"pilot_ratio": 0.0}}, "pilot_ratio"),
     ({"supply": {"relief_full_flow": 150e5}}, "relief_full_flow"),
     ({"operation": {"temp_min": 200.0}}, "temp_min"),
@@ -325,3 +334,14 @@ def test_bad_solve_input(kw, field):
     with pytest.raises(InputError) as e:
         solve(axis(), **args)
     assert e.value.field == field
+
+
+def test_throttle_speed_follows_viscosity_orifice_barely():
+    # common practice (design brief §8): a long throttle's laminar flow follows viscosity, an
+    # orifice's barely; lowering the lift (meter-out, cap side) from 20 degC to 60 degC oil
+    from workbook.restrictor import LongThrottle
+    temps = np.array([293.15, 333.15])
+    thr = solve(axis(RestrictorValve(LongThrottle(0.6e-3, 60e-3)), controlled="retract"), 6e3, temps)
+    ori = solve(axis(RestrictorValve(SharpOrifice(1.2e-3)), controlled="retract"), 6e3, temps)
+    assert thr.speed[1] / thr.speed[0] > 1.8
+    assert abs(ori.speed[1] / ori.speed[0] - 1) < 0.05

@@ -28,7 +28,7 @@ def test_notebook_is_small_and_clean(path):
     assert "widgets" not in nb.get("metadata", {}), "saved widget state makes notebooks heavy"
     assert not re.search(r"0x[0-9a-f]{6,}", text), "memory address in a saved output"
     assert str(ROOT) not in text and "/home/" not in text and "/tmp/" not in text, "absolute path"
-    assert "Caution" in nb["cells"][0]["source"]
+    assert "Caution" in "".join(nb["cells"][0]["source"])
     summary = nb["cells"][-1]
     assert "panel.summary()" in "".join(summary["source"])
     assert summary["outputs"], "the summary cell must carry its output for nbval to compare"

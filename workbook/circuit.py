@@ -541,10 +541,12 @@ def solve(axis: Axis, load, temperature, direction: str | None = None, opening: 
         v = np.where(branch == 1, m.v_max, v)
 
     v = np.clip(v, 0.0, None)
-    return _assemble(axis, m, lay, direction, opening, f_ext, temp, v, branch, rho, mu)
+    demand = p_d_top if lay.kind == "meter-out" else None
+    return _assemble(axis, m, lay, direction, opening, f_ext, temp, v, branch, rho, mu, demand)
 
 
-def _assemble(axis, m: _Model, lay: _Layout, direction, opening, f_ext, temp, v, branch, rho, mu) -> Solution:
+def _assemble(axis, m: _Model, lay: _Layout, direction, opening, f_ext, temp, v, branch, rho, mu,
+              demand=None) -> Solution:
     a_d, a_o, qp, pt, pcav = lay.a_d, lay.a_o, m.qp, m.pt, m.pcav
     relief = m.relief
     shape = v.shape
@@ -613,6 +615,8 @@ def _assemble(axis, m: _Model, lay: _Layout, direction, opening, f_ext, temp, v,
 
     # demanded pressures before clamping, then the clamp
     p_d_dem, p_o_dem = p_d, p_o
+    if demand is not None:      # meter-out outrunning the pump: what the pump side would have needed
+        p_d_dem = np.where(branch == 2, np.minimum(demand, pcav), p_d_dem)
     p_d = np.maximum(p_d, pcav)
     p_o = np.maximum(p_o, pcav)
     p_pump = np.maximum(p_pump, pcav)
@@ -711,6 +715,7 @@ def _regimes(axis, m, lay, opening, v, branch, p_d_dem, p_o_dem, q_relief, dp_fv
     cav = (p_d_dem < pcav) | (p_o_dem < pcav)
     out[cav & moving] = CAVITATING
     out[moving & (p_d_dem < pcav) & (branch != 2)] = RUNAWAY
+    out[moving & (branch == 2)] = CAVITATING
     if lay.hold_driven and isinstance(axis.holding, CounterbalanceValve):
         closed_hold = (p_o - p_mid) + axis.holding.pilot_ratio * np.maximum(p_d_dem, pcav) < axis.holding.setting
     elif lay.hold_driven:
@@ -774,9 +779,18 @@ def axis_from_values(values: Mapping[str, Mapping]) -> Axis:
     oil = Oil.from_values(oil_v)
     supply = Supply.from_values(sup)
     valve = _flow_valve_from_values(fv, oil)
-    if isinstance(valve, CompensatedFlowValve) and fv["setting"] > supply.flow * (1 + 1e-12):
-        raise InputError("flow_valve.setting", f"{fv['setting'] / _LPM:g} L/min",
-                         f"a flow at most the pump flow ({supply.flow / _LPM:.4g} L/min)")
+    if isinstance(valve, CompensatedFlowValve):
+        # the setting is reachable only if the pump can fill the driving chamber at the speed it sets:
+        # meter-in and bleed-off pass pump oil; meter-out passes the driven chamber's oil, so the
+        # pump limit scales by the area ratio A_driven / A_driving (common practice)
+        ext = fv["direction"] == "extend"
+        a_drive, a_driven = (cylinder.a1, cylinder.a3) if ext else (cylinder.a3, cylinder.a1)
+        limit = supply.flow * (a_driven / a_drive if fv["arrangement"] == "meter-out" else 1.0)
+        if fv["setting"] > limit * (1 + 1e-12):
+            raise InputError("flow_valve.setting", f"{fv['setting'] / _LPM:g} L/min",
+                             f"a flow at most {limit / _LPM:.4g} L/min, what the pump "
+                             f"({supply.flow / _LPM:.4g} L/min) can drive through the valve "
+                             f"({fv['arrangement']}, {fv['direction']})")
     kind = hold.get("kind", "none")
     holding = None
     if kind == "counterbalance":

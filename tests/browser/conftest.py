@@ -42,12 +42,19 @@ def pytest_configure(config):
 
 
 def pytest_collection_modifyitems(config, items):
+    # Without Chromium, skip up front so no JupyterLab is started for nothing;
+    # with WORKBOOK_REQUIRE_BROWSER=1 the chromium_path fixture fails instead.
+    skip = None
+    if lab.find_chromium() is None and not lab.browser_required():
+        skip = pytest.mark.skip(reason=lab.CHROMIUM_MISSING)
     for item in items:
         try:
             Path(str(item.fspath)).resolve().relative_to(BROWSER_DIR)
         except ValueError:
             continue
         item.add_marker(pytest.mark.browser)
+        if skip is not None:
+            item.add_marker(skip)
         if item.get_closest_marker("timeout") is None:
             item.add_marker(pytest.mark.timeout(TEST_TIMEOUT_S))
 

@@ -128,7 +128,9 @@ def test_widgets_and_bokeh_render_and_react(lab_server, page, browser_log, smoke
     # The figure drew: bokeh's canvas is there, sized, and has ink on it.
     canvas = plot.locator(".bk-Canvas canvas").first
     canvas.wait_for(state="visible")
-    page.wait_for_function(JS_INK + "", arg=canvas.element_handle(), polling=200)
+    page.wait_for_function(
+        "(c) => (" + JS_INK + ")(c).ink > 500", arg=canvas.element_handle(), polling=200
+    )
     ink_before = canvas.evaluate(JS_INK)
     assert ink_before["width"] > 100 and ink_before["height"] > 100, ink_before
     assert ink_before["ink"] > 500, f"bokeh canvas looks blank: {ink_before}"

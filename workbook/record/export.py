@@ -95,9 +95,10 @@ def _counts(record: Record) -> dict:
 # ---------------------------------------------------------------------------- Markdown
 def _md(text) -> str:
     """Escape text for a Markdown table cell or line: HTML-escaped, markup characters escaped."""
-    out = html.escape(str(text), quote=True)
+    out = str(text)
     for ch in "\\`*_[]|#~":
         out = out.replace(ch, "\\" + ch)
+    out = html.escape(out, quote=True)
     return out.replace("\r\n", " ").replace("\n", " ").replace("\r", " ")
 
 

@@ -166,7 +166,7 @@ def loads(text: str, name: str = "record") -> Record:
     stored = document.pop("digest")
     if digest(document) != stored:
         raise RecordError(f"{name}, digest",
-                          "a record whose content no longer matches its digest: it was edited or damaged",
+                          "a record where the content no longer matches its digest: it was edited or damaged",
                           "a record as the workbook saved it; record the study again instead of editing the file")
     try:
         return Record.from_dict(document)

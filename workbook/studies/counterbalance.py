@@ -93,24 +93,24 @@ def run(values) -> Outcome:
         name = f"counterbalance {r:g}:1"
         pilot_series[name] = curve(np.asarray(sol.p_pilot) / 1e5)
         pump_series[name] = curve(np.asarray(sol.p_pump) / 1e5)
-        heat_series[name] = curve(np.asarray(sol.loss_total) / 1e3)
+        heat_series[name] = curve(np.asarray(sol.loss_holding) / 1e3)
         regimes[name] = regime_list(sol)
         at_cases = solve(ax, cases, t_cold, direction=lower)
         res[f"pilot_{r:g}"] = result(f"Pilot pressure to lower, {r:g}:1, highest over load cases",
                                      float(np.max(np.asarray(at_cases.p_pilot))), "pressure", "bar")
-        res[f"heat_{r:g}"] = result(f"Heat while lowering, {r:g}:1, highest over load cases",
-                                    float(np.max(np.asarray(at_cases.loss_total))), "power", "kW")
+        res[f"heat_{r:g}"] = result(f"Heat in the counterbalance, {r:g}:1, highest over load cases",
+                                    float(np.max(np.asarray(at_cases.loss_holding))), "power", "kW")
     bp = BackPressureValve(setting, hold["gradient"], check)
     ax_bp = dataclasses.replace(base, holding=bp, holding_side=side)
     sol_bp = solve(ax_bp, loads, t_cold, direction=lower)
     name = "back-pressure valve"
     pilot_series[name] = curve(np.asarray(sol_bp.p_pilot) / 1e5)
     pump_series[name] = curve(np.asarray(sol_bp.p_pump) / 1e5)
-    heat_series[name] = curve(np.asarray(sol_bp.loss_total) / 1e3)
+    heat_series[name] = curve(np.asarray(sol_bp.loss_holding) / 1e3)
     regimes[name] = regime_list(sol_bp)
     bp_cases = solve(ax_bp, cases, t_cold, direction=lower)
-    res["heat_back_pressure"] = result("Heat while lowering, back-pressure valve, highest over load cases",
-                                       float(np.max(np.asarray(bp_cases.loss_total))), "power", "kW")
+    res["heat_back_pressure"] = result("Heat in the back-pressure valve, highest over load cases",
+                                       float(np.max(np.asarray(bp_cases.loss_holding))), "power", "kW")
     res["pump_back_pressure"] = result("Pump pressure while lowering, back-pressure valve, highest",
                                        float(np.max(np.asarray(bp_cases.p_pump))), "pressure", "bar")
 
@@ -140,7 +140,8 @@ def run(values) -> Outcome:
     chosen = CounterbalanceValve(setting, hold["pilot_ratio"], hold["gradient"], check)
     chosen_sol = solve(dataclasses.replace(base, holding=chosen, holding_side=side), cases, t_cold, direction=lower)
     heat = float(np.max(np.asarray(chosen_sol.loss_total)))
-    res["heat_chosen"] = result(f"Heat while lowering, chosen ratio {hold['pilot_ratio']:g}:1", heat, "power", "kW")
+    res["heat_chosen"] = result(f"Heat of the whole axis while lowering, chosen ratio {hold['pilot_ratio']:g}:1",
+                                heat, "power", "kW")
     res["pilot_chosen"] = result(f"Pilot pressure to lower, chosen ratio {hold['pilot_ratio']:g}:1",
                                  float(np.max(np.asarray(chosen_sol.p_pilot))), "pressure", "bar")
     level, margin = grade(heat, lim["heat_share"] * drive, 0.0)
@@ -164,7 +165,7 @@ def run(values) -> Outcome:
             "limits": {"relief cracking": base.supply.relief.cracking / 1e5},
         },
         "heat_vs_load": {
-            "title": "Throttling heat while lowering", "x_label": "Load [kN]", "y_label": "Heat [kW]",
+            "title": "Heat in the holding valve while lowering", "x_label": "Load [kN]", "y_label": "Heat [kW]",
             "x": curve(loads / 1e3), "series": heat_series,
             "limits": {"heat share of drive power": lim["heat_share"] * drive / 1e3},
         },

@@ -37,6 +37,25 @@ from .plots import LivePlot
 from .tables import HtmlBox, caution_html, findings_html, results_html
 
 
+_BOKEHJS_LOADED = False
+
+
+def load_bokehjs() -> None:
+    """Put the installed BokehJS into the page once per kernel (no CDN: plots work offline).
+
+    jupyter_bokeh's widgets draw with the BokehJS that the notebook page holds; loading it
+    inline from the installed bokeh package keeps every request on the notebook server.
+    """
+    global _BOKEHJS_LOADED
+    if _BOKEHJS_LOADED:
+        return
+    from bokeh.io import output_notebook
+    from bokeh.resources import INLINE
+
+    output_notebook(resources=INLINE, hide_banner=True)
+    _BOKEHJS_LOADED = True
+
+
 def _split_label(label: str) -> tuple[str, str]:
     """``"Load [kN]"`` -> ``("Load", "kN")``."""
     if label.endswith("]") and " [" in label:
@@ -123,14 +142,13 @@ class StudyPanel:
         self.widget.add_class(f"wb-study-{css_name(self.study.KIND)}")
 
     def _ipython_display_(self):  # pragma: no cover - notebook only
-        from IPython.display import display
-
-        display(self.widget)
+        self.show()
 
     def show(self):
-        """Display the panel in a notebook."""
+        """Display the panel in a notebook (loading the installed BokehJS inline first)."""
         from IPython.display import display
 
+        load_bokehjs()
         display(self.widget)
 
     # ----------------------------------------------------------------- compute

@@ -1,0 +1,264 @@
+"""The JSON exchange form of the design record: round trip, digest, refusals, atomic write.
+
+Sources of the expected behaviour: the JSON Schema Draft 2020-12 meta-schema (checked by the
+`jsonschema` library), the SHA-256 of the standard library's `hashlib`, and the record
+format documented in workbook/record/store.py (canonical JSON: keys sorted, separators
+',' and ':').
+"""
+
+from __future__ import annotations
+
+import hashlib
+import json
+import math
+import os
+import tempfile
+from pathlib import Path
+
+import jsonschema
+import pytest
+from hypothesis import HealthCheck, given, settings, strategies as st
+
+from workbook.inputs import BY_KEY, SECTIONS
+from workbook.record import Record, RecordError, Study, load, loads, record_schema, save, to_json
+from workbook.record import store
+
+HOSTILE = ["<script>alert(1)</script>", "\"quoted\" & 'single'", "a\u0000b\x1f\x7f", "\u202eright-to-left",
+           "emoji \U0001F6A7", "back\\slash", "}]\"{", "line\nbreak\r\n", ""]
+
+texts = st.one_of(st.sampled_from(HOSTILE), st.text(max_size=30))
+floats = st.one_of(st.floats(allow_nan=False, allow_infinity=False),
+                   st.sampled_from([5e-324, -5e-324, 1.7976931348623157e308, -0.0, 0.1 + 0.2, 1e-300]))
+
+
+@st.composite
+def input_entries(draw):
+    """Random input entries for random catalogue fields (structure only; any finite floats)."""
+    out = {}
+    for sec in draw(st.lists(st.sampled_from(SECTIONS), max_size=3, unique_by=lambda s: s.key)):
+        fields = draw(st.lists(st.sampled_from(sec.fields), max_size=4, unique_by=lambda f: f.key))
+        entries = {}
+        for f in fields:
+            if f.dimension == "text":
+                entries[f.key] = {"value": draw(texts)}
+            elif f.dimension == "choice":
+                entries[f.key] = {"value": draw(st.sampled_from(f.choices))}
+            elif f.dimension == "flag":
+                entries[f.key] = {"value": draw(st.booleans())}
+            elif f.dimension == "quantity_list":
+                n = draw(st.integers(1, 4))
+                entries[f.key] = {"value": draw(st.lists(floats, min_size=n, max_size=n)), "unit": f.unit,
+                                  "si": draw(st.lists(floats, min_size=n, max_size=n))}
+            elif f.optional and draw(st.booleans()):
+                entries[f.key] = {"value": None}
+            else:
+                entries[f.key] = {"value": draw(floats), "unit": f.unit, "si": draw(floats)}
+        out[sec.key] = entries
+    return out
+
+
+levels = st.sampled_from(["pass", "caution", "fail"])
+maybe_float = st.one_of(st.none(), floats)
+
+
+@st.composite
+def studies(draw):
+    n = draw(st.integers(0, 6))
+    x = draw(st.lists(floats, min_size=n, max_size=n))
+    series = draw(st.dictionaries(texts, st.lists(st.one_of(st.none(), floats), min_size=n, max_size=n), max_size=2))
+    return Study(
+        kind=draw(st.text(min_size=1, max_size=20).filter(lambda s: s.strip())),
+        title=draw(texts),
+        inputs=draw(input_entries()),
+        results=draw(st.dictionaries(texts, st.fixed_dictionaries({"value": floats, "unit": texts, "label": texts}),
+                                     max_size=3)),
+        findings=draw(st.lists(st.fixed_dictionaries({
+            "rule_id": texts, "statement": texts, "quantity": texts, "value": maybe_float, "limit": maybe_float,
+            "unit": texts, "margin": maybe_float, "level": levels, "source": texts, "detail": texts}), max_size=3)),
+        figures=draw(st.dictionaries(texts, st.fixed_dictionaries({
+            "title": texts, "x_label": texts, "y_label": texts, "x": st.just(x), "series": st.just(series),
+            "limits": st.dictionaries(texts, floats, max_size=2)}), max_size=2)),
+        notes=draw(st.lists(texts, max_size=3)),
+    )
+
+
+@st.composite
+def records(draw):
+    identity = {f.key: draw(texts) for f in BY_KEY["identity"].fields}
+    study_list = draw(st.lists(studies(), max_size=3))
+    keys = draw(st.lists(st.text(min_size=1, max_size=12).filter(lambda s: s.strip()), min_size=len(study_list),
+                         max_size=len(study_list), unique=True))
+    return Record(identity, dict(zip(keys, study_list)), notes=draw(st.lists(texts, max_size=3)))
+
+
+def _same_floats(a, b):
+    """== plus bit-for-bit sameness of every float (so -0.0 and 0.0 differ)."""
+    if isinstance(a, float):
+        return isinstance(b, float) and math.copysign(1, a) == math.copysign(1, b) and a == b
+    if isinstance(a, dict):
+        return a.keys() == b.keys() and all(_same_floats(a[k], b[k]) for k in a)
+    if isinstance(a, list):
+        return len(a) == len(b) and all(_same_floats(x, y) for x, y in zip(a, b))
+    return a == b
+
+
+@settings(max_examples=60, deadline=None, suppress_health_check=[HealthCheck.too_slow, HealthCheck.data_too_large])
+@given(records())
+def test_any_record_survives_save_and_load_unchanged(record):
+    with tempfile.TemporaryDirectory() as d:
+        path = Path(d) / "axis.json"
+        save(record, path)
+        back = load(path)
+    assert back == record
+    assert _same_floats(back.to_dict(), record.to_dict())
+    assert list(back.studies) == list(record.studies)   # study order is content
+
+
+def test_shipped_schema_is_valid_draft_2020_12():
+    # source: the Draft 2020-12 meta-schema, via jsonschema
+    jsonschema.Draft202012Validator.check_schema(record_schema())
+    shipped = json.loads((Path(store.__file__).parent / "schema" / "record-1.json").read_text(encoding="utf-8"))
+    jsonschema.Draft202012Validator.check_schema(shipped)
+    assert shipped["$schema"] == "https://json-schema.org/draft/2020-12/schema"
+
+
+def _demo_record():
+    from workbook.record import inputs_from_values
+    s = Study("restrictor-sizing", "Lowering", inputs=inputs_from_values({"cylinder": {"bore": 0.08, "rod": 0.045}}),
+              results={"q": {"value": 5.0265e-4, "unit": "m**3/s", "label": "Cap outflow"}},
+              findings=[{"rule_id": "P1", "statement": "cap pressure below rating", "value": 18.0, "limit": 210.0,
+                         "unit": "bar", "margin": 0.914, "level": "pass", "source": "user's data sheet"}])
+    return Record({"machine": "BT-2 bin tipper", "axis": "lift", "date": "2026-11-30"}, {"sizing": s})
+
+
+def test_saved_file_is_valid_and_its_digest_follows_the_documented_recipe(tmp_path):
+    path = save(_demo_record(), tmp_path / "lift.json")
+    doc = json.loads(path.read_text(encoding="utf-8"))
+    jsonschema.validate(doc, record_schema(), cls=jsonschema.Draft202012Validator)
+    stored = doc.pop("digest")
+    # source: hashlib.sha256 over the canonical JSON described in store.py
+    canonical = json.dumps(doc, sort_keys=True, separators=(",", ":"), ensure_ascii=False).encode("utf-8")
+    assert stored == "sha256:" + hashlib.sha256(canonical).hexdigest()
+
+
+def _edit(path, change):
+    doc = json.loads(path.read_text(encoding="utf-8"))
+    change(doc)
+    path.write_text(json.dumps(doc, indent=2), encoding="utf-8")
+
+
+def test_an_edited_value_is_refused_as_tampered(tmp_path):
+    path = save(_demo_record(), tmp_path / "lift.json")
+    _edit(path, lambda d: d["studies"][0]["inputs"]["cylinder"]["bore"].update(value=81.0))
+    with pytest.raises(RecordError, match="the content no longer matches its digest: it was edited or damaged"):
+        load(path)
+    path = save(_demo_record(), tmp_path / "lift.json")
+    _edit(path, lambda d: d["identity"].update(author="someone else"))
+    with pytest.raises(RecordError) as info:
+        load(path)
+    assert str(info.value).startswith("lift.json, digest: ")
+
+
+def test_an_unknown_schema_version_is_refused_saying_which(tmp_path):
+    path = save(_demo_record(), tmp_path / "lift.json")
+    _edit(path, lambda d: d.update(schema_version=7))
+    with pytest.raises(RecordError) as info:
+        load(path)
+    msg = str(info.value)
+    assert "schema version 7" in msg and "allowed: schema version 1" in msg
+
+
+def test_truncated_empty_and_non_json_files_are_refused(tmp_path):
+    text = to_json(_demo_record())
+    (tmp_path / "cut.json").write_text(text[: len(text) // 2], encoding="utf-8")
+    with pytest.raises(RecordError, match=r"cut\.json: got a file that ends early .*truncated"):
+        load(tmp_path / "cut.json")
+    (tmp_path / "empty.json").write_text("", encoding="utf-8")
+    with pytest.raises(RecordError, match=r"empty\.json: got an empty file"):
+        load(tmp_path / "empty.json")
+    (tmp_path / "notes.json").write_text("bore = 80 mm\n", encoding="utf-8")
+    with pytest.raises(RecordError, match=r"notes\.json: got text that is not JSON.*line 1, column 1"):
+        load(tmp_path / "notes.json")
+    (tmp_path / "bin.json").write_bytes(b"\xff\xfe{}")
+    with pytest.raises(RecordError, match="not UTF-8"):
+        load(tmp_path / "bin.json")
+    with pytest.raises(RecordError, match="a JSON list, not an object"):
+        loads("[1, 2]", "list.json")
+    with pytest.raises(RecordError, match="NaN is not a number JSON allows"):
+        loads('{"schema_version": NaN}', "nan.json")
+    with pytest.raises(RecordError, match="appears twice"):
+        loads('{"notes": [], "notes": []}', "dup.json")
+    with pytest.raises(RecordError, match="no such file"):
+        load(tmp_path / "absent.json")
+
+
+def test_a_record_missing_a_required_part_is_refused_naming_the_part(tmp_path):
+    def drop(part, where=lambda d: d):
+        path = save(_demo_record(), tmp_path / "lift.json")
+
+        def change(d):
+            d.pop("digest")
+            if part != "digest":
+                del where(d)[part]  # a fresh digest, so that only the schema can object
+                d["digest"] = store.digest(d)
+        _edit(path, change)
+        with pytest.raises(RecordError) as info:
+            load(path)
+        return str(info.value)
+
+    assert "required part 'identity'" in drop("identity")
+    msg = drop("results", lambda d: d["studies"][0])
+    assert msg.startswith("lift.json, studies.sizing: ") and "required part 'results'" in msg
+    msg = drop("source", lambda d: d["studies"][0]["findings"][0])
+    assert "studies.sizing.findings[0]" in msg and "'source'" in msg
+    msg = drop("digest")
+    assert "required part 'digest'" in msg
+
+
+def test_a_part_the_catalogue_does_not_know_is_refused(tmp_path):
+    path = save(_demo_record(), tmp_path / "lift.json")
+
+    def change(d):
+        d["studies"][0]["inputs"]["cylinder"]["bore_size"] = {"value": 80.0, "unit": "mm"}
+        d.pop("digest")
+        d["digest"] = store.digest(d)
+    _edit(path, change)
+    with pytest.raises(RecordError, match=r"studies\.sizing\.inputs\.cylinder.*'bore_size' was unexpected"):
+        load(path)
+
+
+class Injected(OSError):
+    pass
+
+
+def test_a_failure_between_write_and_rename_leaves_the_previous_record(tmp_path, monkeypatch):
+    path = tmp_path / "lift.json"
+    old = _demo_record()
+    save(old, path)
+    new = old.with_note("second revision")
+
+    def fail(src, dst):
+        assert Path(src).read_text(encoding="utf-8") == to_json(new)  # the new text was fully written
+        raise Injected("disk pulled out (injected)")
+    monkeypatch.setattr(store, "_replace", fail)
+    with pytest.raises(Injected):
+        save(new, path)
+    assert load(path) == old
+    assert sorted(os.listdir(tmp_path)) == ["lift.json"]          # no temporary file behind
+
+
+def test_a_failure_while_writing_leaves_no_file(tmp_path, monkeypatch):
+    def fail(fd):
+        raise Injected("fsync failed (injected)")
+    monkeypatch.setattr(store.os, "fsync", fail)
+    with pytest.raises(Injected):
+        save(_demo_record(), tmp_path / "new.json")
+    assert os.listdir(tmp_path) == []
+
+
+def test_save_writes_what_load_reads_and_replaces_the_old_file(tmp_path):
+    path = tmp_path / "lift.json"
+    save(_demo_record(), path)
+    newer = _demo_record().with_note("after review")
+    save(newer, path)
+    assert load(path) == newer and load(path).notes == ["after review"]

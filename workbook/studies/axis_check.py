@@ -1,0 +1,74 @@
+"""Axis check: every design rule of :mod:`workbook.checks` on the axis as designed.
+
+This is the study the command line's ``evaluate`` records for every axis of a design file:
+all load cases, the oil temperature range, both directions, and the flow valve fully closed.
+The findings carry their sources; the results give the key operating figures at the load
+cases of the controlled motion.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from ..checks import evaluate
+from ..circuit import solve
+from .base import Outcome, finding, result
+from .common import AXIS_FIELDS, build_axis
+
+KIND = "axis-check"
+TITLE = "Axis check"
+PURPOSE = "Every design rule on the axis as designed, over its load cases, temperatures and directions."
+NORMAL_REGIME = None
+
+FIELDS = AXIS_FIELDS + (
+    ("cylinder", "stroke"),
+    ("flow_valve", "arrangement"), ("flow_valve", "direction"), ("flow_valve", "kind"), ("flow_valve", "diameter"),
+    ("flow_valve", "length"), ("flow_valve", "cd"), ("flow_valve", "seat_diameter"), ("flow_valve", "half_angle"),
+    ("flow_valve", "turns"), ("flow_valve", "pitch"), ("flow_valve", "setting"), ("flow_valve", "compensator_drop"),
+    ("flow_valve", "min_drop"), ("flow_valve", "droop"), ("flow_valve", "check_cracking"),
+    ("holding", "kind"), ("holding", "side"), ("holding", "setting"), ("holding", "pilot_ratio"),
+    ("holding", "gradient"), ("holding", "check_cracking"),
+    ("operation", "mass"),
+    ("ratings", "hose_rating"), ("ratings", "valve_rating"), ("ratings", "pressure_line_bore"),
+    ("ratings", "return_line_bore"), ("ratings", "suction_line_bore"),
+    ("limits", "counterbalance_factor"), ("limits", "pressure_margin"), ("limits", "cavitation_abs"),
+    ("limits", "heat_share"), ("limits", "v_suction"), ("limits", "v_return"), ("limits", "v_pressure"),
+)
+
+#: display unit of each dimension in findings
+DISPLAY_UNIT = {"pressure": "bar", "velocity": "m/s", "power": "kW", "flow": "L/min", "force": "kN",
+                "length": "mm", "temperature": "degC", "dimensionless": ""}
+
+
+def run(values) -> Outcome:
+    axis = build_axis(values)
+    findings = []
+    for f in evaluate(axis, values.get("limits")):
+        unit = DISPLAY_UNIT.get(f.dimension, "")
+        findings.append(finding(f.rule_id, f.statement, f.quantity, f.value, f.limit, f.dimension, unit,
+                                f.level, f.source, f.margin, f.detail))
+    loads = np.asarray(axis.loads, dtype=float)
+    temps = np.array([axis.temp_min, axis.temp_max])
+    sol = solve(axis, loads[:, None], temps[None, :])
+    closed = solve(axis, loads, axis.temp_min, opening=0.0) if axis.arrangement != "bleed-off" else None
+    res = {
+        "pump_flow": result("Pump flow", axis.supply.flow, "flow", "L/min"),
+        "area_ratio": {"value": axis.cylinder.phi, "unit": "", "label": "Area ratio A1/A3"},
+        "speed_min": result(f"Slowest {axis.controlled} speed over load cases and temperatures",
+                            float(np.min(sol.speed)), "velocity", "mm/s"),
+        "speed_max": result(f"Fastest {axis.controlled} speed over load cases and temperatures",
+                            float(np.max(sol.speed)), "velocity", "mm/s"),
+        "p_pump_max": result("Highest pump pressure", float(np.max(sol.p_pump)), "pressure", "bar"),
+        "p_cap_max": result("Highest cap pressure, moving", float(np.max(sol.p1)), "pressure", "bar"),
+        "p_rod_max": result("Highest rod pressure, moving", float(np.max(sol.p3)), "pressure", "bar"),
+        "heat_max": result("Highest throttling heat, moving", float(np.max(sol.loss_total)), "power", "kW"),
+    }
+    if closed is not None:
+        res["p_cap_closed"] = result("Highest cap pressure, flow valve closed", float(np.max(closed.p1)),
+                                     "pressure", "bar")
+        res["p_rod_closed"] = result("Highest rod pressure, flow valve closed", float(np.max(closed.p3)),
+                                     "pressure", "bar")
+    return Outcome(KIND, TITLE, values, FIELDS, res, findings, {}, {})
+
+
+__all__ = ["KIND", "TITLE", "PURPOSE", "FIELDS", "run"]
