@@ -12,7 +12,8 @@ from __future__ import annotations
 import math
 
 import numpy as np
-from hypothesis import given, settings, strategies as st
+from workbook.errors import ModelValidityError
+from hypothesis import assume, given, settings, strategies as st
 
 from workbook.restrictor import (
     RE_LAMINAR_LIMIT,
@@ -105,7 +106,12 @@ def test_orifice_diameter_reproduces_flow(q, dp, rho, mu):
 @SETTINGS
 @given(q=flows, dp=drops, rho=rhos, mu=mus, length=logs(1e-3, 1.0), rough=st.floats(0.0, 1e-6))
 def test_throttle_diameter_reproduces_flow(q, dp, rho, mu, length, rough):
-    s = throttle_diameter(q, dp, rho, mu, length, roughness=rough)
+    try:
+        s = throttle_diameter(q, dp, rho, mu, length, roughness=rough)
+    except ModelValidityError as exc:
+        # a bore so small that the roughness exceeds 0.05 d is refused by design (Colebrook's range)
+        assert exc.field == "roughness"
+        assume(False)
     assert np.isfinite(s.diameter) and s.diameter > 0
     t = LongThrottle(s.diameter, length, roughness=rough)
     np.testing.assert_allclose(t.flow(dp, rho, mu).flow, q, rtol=1e-10)

@@ -637,3 +637,112 @@ def screenshot(page, name: str, locator=None) -> Path:
     path = SCREENSHOT_DIR / (safe if safe.endswith(".png") else safe + ".png")
     (locator or page).screenshot(path=str(path))
     return path
+
+
+# --------------------------------------------------------------------------
+# Reading what a study panel shows
+# --------------------------------------------------------------------------
+
+# Pixels of a canvas that are not (nearly) white or transparent.
+_JS_CANVAS_INK = """
+(canvas) => {
+  const w = canvas.width, h = canvas.height;
+  if (!w || !h) return {width: w, height: h, ink: 0};
+  const px = canvas.getContext('2d').getImageData(0, 0, w, h).data;
+  let ink = 0;
+  for (let i = 0; i < px.length; i += 4) {
+    if (px[i + 3] === 0) continue;
+    if (Math.min(px[i], px[i + 1], px[i + 2]) < 200) ink += 1;
+  }
+  return {width: w, height: h, ink: ink};
+}
+"""
+
+# Every column ``name`` of every ColumnDataSource in the page's Bokeh
+# documents, rounded to 6 significant figures (NaN -> null).
+_JS_BOKEH_COLUMNS = """
+(name) => {
+  const B = window.Bokeh;
+  if (!B || !B.documents) return null;
+  const columns = [];
+  for (const doc of B.documents) {
+    for (const model of doc.all_models) {
+      if (typeof model.get_column !== 'function') continue;
+      const col = model.get_column(name);
+      if (col == null) continue;
+      columns.push(Array.from(col, v => Number.isFinite(v) ? Number(v.toPrecision(6)) : null));
+    }
+  }
+  return columns;
+}
+"""
+
+# Rows of the first table inside an element: lists of cell texts.
+_JS_TABLE_ROWS = """
+(root) => {
+  const table = root.querySelector('table');
+  if (!table) return [];
+  return Array.from(table.querySelectorAll('tr'))
+    .map(tr => Array.from(tr.querySelectorAll('td')).map(td => td.textContent.trim()))
+    .filter(cells => cells.length > 0);
+}
+"""
+
+
+def canvas_ink(canvas) -> dict:
+    """``{width, height, ink}`` of a <canvas> locator; ``ink`` counts drawn pixels."""
+    return canvas.evaluate(_JS_CANVAS_INK)
+
+
+def wait_for_ink(page, canvas, min_ink: int = 500, timeout_ms: int = DEFAULT_TIMEOUT_MS) -> dict:
+    """Wait until a canvas has at least ``min_ink`` drawn pixels; return its ink."""
+    page.wait_for_function(
+        "([c, n]) => (" + _JS_CANVAS_INK + ")(c).ink >= n",
+        arg=[canvas.element_handle(), min_ink],
+        polling=200,
+        timeout=timeout_ms,
+    )
+    return canvas_ink(canvas)
+
+
+def bokeh_columns(page, name: str = "y") -> list | None:
+    """Column ``name`` of every ColumnDataSource BokehJS holds (None: no BokehJS)."""
+    return page.evaluate(_JS_BOKEH_COLUMNS, name)
+
+
+def table_rows(locator) -> list[list[str]]:
+    """Cell texts of the first <table> inside ``locator`` (header rows left out)."""
+    return locator.evaluate(_JS_TABLE_ROWS)
+
+
+def wait_until(page, predicate, timeout_ms: int = 30_000, interval_ms: int = 100, message: str = ""):
+    """Poll ``predicate()`` (Python side) until it returns a truthy value; return it."""
+    deadline = time.monotonic() + timeout_ms / 1000
+    while True:
+        value = predicate()
+        if value:
+            return value
+        if time.monotonic() > deadline:
+            raise TimeoutError(message or f"condition not met within {timeout_ms} ms")
+        page.wait_for_timeout(interval_ms)
+
+
+def union_box(page, locators, padding: int = 0) -> dict:
+    """Bounding box (page CSS pixels) around all ``locators``, grown by ``padding``."""
+    boxes = [loc.bounding_box() for loc in locators]
+    boxes = [b for b in boxes if b]
+    if not boxes:
+        raise ValueError("none of the elements has a bounding box")
+    x0 = max(0.0, min(b["x"] for b in boxes) - padding)
+    y0 = max(0.0, min(b["y"] for b in boxes) - padding)
+    x1 = max(b["x"] + b["width"] for b in boxes) + padding
+    y1 = max(b["y"] + b["height"] for b in boxes) + padding
+    return {"x": x0, "y": y0, "width": x1 - x0, "height": y1 - y0}
+
+
+def screenshot_region(page, path, locators, padding: int = 8) -> Path:
+    """Save a PNG of the region around ``locators`` to ``path`` (any folder)."""
+    path = Path(path)
+    path.parent.mkdir(parents=True, exist_ok=True)
+    page.screenshot(path=str(path), clip=union_box(page, locators, padding), scale="css")
+    return path

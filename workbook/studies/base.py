@@ -90,10 +90,24 @@ def sort_findings(items: Iterable[Mapping]) -> list[dict]:
     return sorted((dict(f) for f in items), key=lambda f: LEVEL_ORDER.get(f["level"], 3))
 
 
-def curve(values) -> list:
-    """A curve as a list of floats for a figure; non-finite points become gaps (None)."""
+def curve(values) -> np.ndarray:
+    """A curve for a figure: a flat float array, non-finite points as NaN (gaps)."""
+    arr = np.array(values, dtype=float).ravel()
+    arr[~np.isfinite(arr)] = np.nan
+    return arr
+
+
+def as_list(values) -> list:
+    """A curve as the record stores it: floats, with gaps as None."""
     arr = np.asarray(values, dtype=float).ravel()
     return [float(v) if math.isfinite(v) else None for v in arr]
+
+
+def figures_for_record(figures: Mapping) -> dict:
+    """Figures with their curves as lists (the record's JSON form)."""
+    return {key: {**fig, "x": as_list(fig["x"]),
+                  "series": {name: as_list(ys) for name, ys in fig["series"].items()}}
+            for key, fig in figures.items()}
 
 
 @dataclass
@@ -128,7 +142,7 @@ class Outcome:
     def to_study(self, notes: Iterable[str] = ()) -> Study:
         """The study as the design record stores it."""
         return Study(kind=self.kind, title=self.title, inputs=inputs_from_values(self.recorded_values()),
-                     results=self.results, findings=self.findings, figures=self.figures,
+                     results=self.results, findings=self.findings, figures=figures_for_record(self.figures),
                      notes=list(self.notes) + list(notes))
 
     def summary(self) -> str:

@@ -34,7 +34,8 @@ def sweep(values, n: int | None = None) -> np.ndarray:
 
 
 def regime_list(sol) -> list[str]:
-    return [str(r) for r in np.asarray(sol.regime).ravel()]
+    """The regime label of every point, as plain strings."""
+    return np.asarray(sol.regime).ravel().astype(str).tolist()
 
 
 def mid_temperature(values) -> float:

@@ -110,6 +110,17 @@ def candidates(values):
     return {"orifice": axis_o, "long throttle": axis_t, "compensated valve": axis_c}, sizes
 
 
+class _Part:
+    """A slice of a :class:`~workbook.circuit.Solution` (arrays of the points in ``part``)."""
+
+    def __init__(self, sol, part: slice):
+        self._sol, self._part = sol, part
+
+    def __getattr__(self, name):
+        value = getattr(self._sol, name)
+        return value[self._part] if isinstance(value, np.ndarray) and value.ndim == 1 else value
+
+
 def run(values) -> Outcome:
     axes, res = candidates(values)
     op, st = values["operation"], values["study"]
@@ -119,8 +130,16 @@ def run(values) -> Outcome:
     temps = np.array([op["temp_min"], op["temp_max"]])
     v_target = op["target_speed"]
     tol = op["speed_tolerance"]
-    sols = {name: solve(ax, loads, t) for name, ax in axes.items()}
-    grid = {name: solve(ax, cases[:, None], temps[None, :]) for name, ax in axes.items()}
+    # one solve per candidate: the sweep at the sizing temperature, then every load case at
+    # both ends of the temperature range (the solver's cost is per call, not per point)
+    case_loads = np.repeat(cases, temps.size)
+    case_temps = np.tile(temps, cases.size)
+    all_loads = np.concatenate([loads, case_loads])
+    all_temps = np.concatenate([np.full(loads.size, t), case_temps])
+    n = loads.size
+    both = {name: solve(ax, all_loads, all_temps) for name, ax in axes.items()}
+    sols = {name: _Part(s, slice(0, n)) for name, s in both.items()}
+    grid = {name: _Part(s, slice(n, None)) for name, s in both.items()}
     findings = []
     for name, g in grid.items():
         v = np.asarray(g.speed)
@@ -157,7 +176,8 @@ def run(values) -> Outcome:
             "limits": {"drive power": values["supply"]["drive_power"] / 1e3},
         },
     }
-    regimes = {key: {name: regime_list(s) for name, s in sols.items()} for key in figures}
+    per_series = {name: regime_list(s) for name, s in sols.items()}
+    regimes = {key: per_series for key in figures}
     return Outcome(KIND, TITLE, values, FIELDS, res, findings, figures, regimes)
 
 

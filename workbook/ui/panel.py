@@ -29,6 +29,7 @@ from pathlib import Path
 from typing import Mapping
 
 import ipywidgets as W
+import numpy as np
 
 from .. import inputs
 from ..errors import InputError
@@ -210,8 +211,8 @@ class StudyPanel:
                                 tuple(fig.get("limits", {})), normal_regime=getattr(self.study, "NORMAL_REGIME", None))
                 self.plots[key] = plot
                 changed = True
-            ys = {k: [float("nan") if v is None else v for v in vals] for k, vals in fig["series"].items()}
-            plot.update([float("nan") if v is None else v for v in fig["x"]], ys,
+            ys = {k: np.asarray(vals, dtype=float) for k, vals in fig["series"].items()}
+            plot.update(np.asarray(fig["x"], dtype=float), ys,
                         regimes=outcome.regimes.get(key), limits=fig.get("limits"),
                         xs=(outcome.extra_x.get(key) if hasattr(outcome, "extra_x") else None))
         if changed:

@@ -112,24 +112,26 @@ class LivePlot:
                 grow[0] = off[0] or (len(off) > 1 and off[1])
                 grow[-1] = off[-1] or (len(off) > 1 and off[-2])
                 alt = np.where(grow, y, np.nan)
-            src.data = {"x": xx.tolist(), "y": _clean(y), "y_alt": _clean(alt), "regime": reg}
+            # numpy arrays travel to the browser as binary buffers, far cheaper than lists
+            src.data = {"x": xx, "y": _clean(y), "y_alt": _clean(alt), "regime": reg}
         for name, value in (limits or {}).items():
             if name in self.limit_spans and value is not None and math.isfinite(value):
-                self.limit_spans[name].location = float(value)
-                self.limit_spans[name].visible = True
-                self.limit_labels[name].y = float(value)
-                self.limit_labels[name].y_units = "data"
-                self.limit_labels[name].visible = True
+                span, label = self.limit_spans[name], self.limit_labels[name]
+                if span.location != float(value) or not span.visible:  # only what changed is sent
+                    span.location = float(value)
+                    span.visible = True
+                    label.y = float(value)
+                    label.y_units = "data"
+                    label.visible = True
 
     def data(self, name: str) -> dict:
-        """The current data of one series (for tests and benchmarks)."""
-        return dict(self.sources[name].data)
+        """The current data of one series as lists (for tests and benchmarks)."""
+        return {k: (v.tolist() if isinstance(v, np.ndarray) else list(v)) for k, v in self.sources[name].data.items()}
 
 
-def _clean(values: np.ndarray) -> list:
-    """List for bokeh with NaN kept as NaN (a gap in the line) and no infinities."""
-    v = np.where(np.isfinite(values), values, np.nan)
-    return v.tolist()
+def _clean(values: np.ndarray) -> np.ndarray:
+    """Float array for bokeh with NaN kept as NaN (a gap in the line) and no infinities."""
+    return np.where(np.isfinite(values), values, np.nan).astype(float)
 
 
 __all__ = ["LivePlot", "PALETTE"]

@@ -1,0 +1,273 @@
+"""The four study notebooks, driven the way a user drives them.
+
+For each study the notebook and the demo design are copied into a folder of
+their own under the lab server's root, so the axis record of one study never
+reopens another test's values. The test then runs every cell and checks, in
+the browser:
+
+1. no cell error, console error, page error or failed request;
+2. the panel shows its input rows, results, findings and drawn bokeh figures;
+3. a new value with a unit, submitted with Enter, changes the results table
+   and the figures' data (and the picture);
+4. a refused value marks its row, explains itself, flags the results as out of
+   date and leaves the last valid numbers and figures in place;
+5. after fixing the entry, "Record study" writes the axis record (JSON, with
+   this study and the typed value), "Export HTML" writes the review copy, and
+   that copy, served by the lab server, shows the caution and every finding's
+   source;
+6. screenshots of the panel (and, with WORKBOOK_UPDATE_SCREENSHOT=1, the
+   small picture for the README in docs/study-screenshot.png).
+
+The page fixture fails the test if the browser asked for anything off
+loopback, including from the exported HTML.
+"""
+
+from __future__ import annotations
+
+import json
+import math
+import os
+import shutil
+import urllib.parse
+from dataclasses import dataclass
+from pathlib import Path
+
+import pytest
+
+from lab import (
+    REPO_ROOT,
+    assert_no_cell_errors,
+    bokeh_columns,
+    canvas_ink,
+    open_notebook,
+    run_all_cells,
+    screenshot,
+    screenshot_region,
+    table_rows,
+    type_into_field,
+    wait_for_idle,
+    wait_for_ink,
+    wait_until,
+    widget,
+)
+
+NOTEBOOKS = REPO_ROOT / "notebooks"
+DOCS_SCREENSHOT = REPO_ROOT / "docs" / "study-screenshot.png"
+DOCS_SCREENSHOT_MAX_BYTES = 200_000
+DOCS_STUDY = "rod-pressure"
+
+INCH = 0.0254
+US_GALLON = 3.785411784e-3
+PSI = 6894.757293168
+
+
+@dataclass(frozen=True)
+class Study:
+    kind: str
+    notebook: str
+    axis: str
+    field: str  # "section.key"
+    good: str  # typed value with a unit
+    good_si: float  # what the record must hold for it
+    bad: str  # a value the field must refuse
+    figures: int  # number of bokeh figures the panel shows
+
+    @property
+    def field_class(self) -> str:
+        section, key = self.field.split(".")
+        return f"wb-field-{section.replace('_', '-')}-{key.replace('_', '-')}"
+
+
+STUDIES = [
+    Study("restrictor-sizing", "1-restrictor-sizing.ipynb", "lift",
+          "study.target_flow", "3 gpm", 3 * US_GALLON / 60, "-3 L/min", 2),
+    Study("speed-vs-load", "2-speed-against-load.ipynb", "lift",
+          "cylinder.bore", "3 in", 3 * INCH, "160 bar", 3),
+    Study("rod-pressure", "3-rod-side-pressure.ipynb", "tip",
+          "cylinder.bore", "2.5 in", 2.5 * INCH, "abc", 1),
+    Study("counterbalance", "4-counterbalance-setting.ipynb", "lift",
+          "holding.setting", "500 psi", 500 * PSI, "-5 mm", 3),
+]
+
+
+def results_of(page) -> dict[str, str]:
+    """``{quantity label: shown number}`` of the results table."""
+    rows = table_rows(widget(page, "wb-results-box"))
+    return {cells[0]: cells[1] for cells in rows if len(cells) >= 2}
+
+
+def stale_shown(page) -> bool:
+    return page.locator(".wb-results-box .wb-stale-note").count() > 0
+
+
+def study_in_record(record: dict, kind: str) -> dict | None:
+    studies = record.get("studies")
+    if isinstance(studies, dict):
+        return studies.get(kind)
+    for entry in studies or []:
+        if entry.get("kind") == kind or entry.get("key") == kind:
+            return entry
+    return None
+
+
+@pytest.fixture
+def study_folder(request, lab_server):
+    """Copy the study notebook and notebooks/designs/ into ``<root>/<kind>/``."""
+    study: Study = request.param
+    folder = lab_server.root_dir / study.kind
+    if folder.exists():
+        shutil.rmtree(folder)
+    shutil.copytree(NOTEBOOKS / "designs", folder / "designs")
+    name = lab_server.copy_notebook(NOTEBOOKS / study.notebook, f"{study.kind}/{study.notebook}")
+    return study, folder, name
+
+
+@pytest.mark.parametrize("study_folder", STUDIES, ids=[s.kind for s in STUDIES], indirect=True)
+def test_study_panel_in_the_browser(lab_server, page, browser_log, study_folder):
+    study, folder, name = study_folder
+    record_json = folder / "records" / f"bin-tipper-{study.axis}.json"
+    record_html = record_json.with_suffix(".html")
+    assert not record_json.exists() and not record_html.exists()
+
+    # 1. open and run every cell ------------------------------------------------
+    open_notebook(page, lab_server, name)
+    run_all_cells(page)
+    browser_log.assert_clean()
+
+    # 2. the panel and its parts are there, the figures have drawn -------------
+    panel = widget(page, f"wb-study-{study.kind}")
+    panel.wait_for(state="visible")
+    assert "wb-panel" in (panel.get_attribute("class") or "").split()
+    assert page.locator(".wb-panel").count() == 1
+    assert panel.locator(".wb-field").count() >= 3
+    row = panel.locator(f".{study.field_class}").first
+    row.wait_for(state="visible")
+    entry = row.locator(".wb-entry input").first
+    entry.wait_for(state="visible")
+    widget(page, "wb-results-box").wait_for(state="visible")
+    widget(page, "wb-findings-box").wait_for(state="visible")
+    assert panel.locator(".wb-findings-box .wb-finding").count() >= 1
+    assert "Caution" in widget(page, "wb-caution-box").inner_text()
+
+    plots = panel.locator(".wb-plots .wb-plot")
+    wait_until(page, lambda: plots.count() == study.figures, message="figures not shown")
+    for i in range(study.figures):
+        canvas = plots.nth(i).locator(".bk-Canvas canvas").first
+        canvas.wait_for(state="visible")
+        ink = wait_for_ink(page, canvas)
+        assert ink["width"] > 200 and ink["height"] > 150, (i, ink)
+
+    results0 = results_of(page)
+    assert len(results0) >= 5, results0
+    assert not stale_shown(page)
+    data0 = bokeh_columns(page, "y")
+    assert data0 and any(data0), "BokehJS holds no plotted data"
+    first_canvas = plots.first.locator(".bk-Canvas canvas").first
+    picture0 = first_canvas.screenshot()
+
+    # 3. a new value with a unit changes results and figures -------------------
+    type_into_field(page, f".{study.field_class} .wb-entry", study.good)
+    results1 = wait_until(
+        page,
+        lambda: (r := results_of(page)) != results0 and not stale_shown(page) and r,
+        message=f"results did not change after {study.field} = {study.good!r}",
+    )
+    wait_for_idle(page)
+    assert "wb-invalid" not in (row.get_attribute("class") or "")
+    changed = [k for k in results0 if results0[k] != results1.get(k)]
+    assert changed, "no number in the results table changed"
+    data1 = wait_until(
+        page, lambda: (d := bokeh_columns(page, "y")) != data0 and d,
+        message="the figures' data did not change",
+    )
+    page.wait_for_timeout(300)  # BokehJS repaints after the data change
+    assert first_canvas.screenshot() != picture0, "the first figure was not redrawn"
+    screenshot(page, f"study-{study.kind}-changed", locator=panel)
+
+    # 4. a refused value: message, marked row, out-of-date note, old numbers ---
+    type_into_field(page, f".{study.field_class} .wb-entry", study.bad)
+    wait_until(
+        page,
+        lambda: "wb-invalid" in (row.get_attribute("class") or "").split(),
+        message=f"{study.bad!r} in {study.field} was not marked invalid",
+    )
+    wait_for_idle(page)
+    message = row.locator(".wb-message").inner_text()
+    assert "not accepted" in message, message
+    assert study.bad in message, message
+    note = page.locator(".wb-results-box .wb-stale-note").first
+    note.wait_for(state="visible")
+    assert "Out of date" in note.inner_text()
+    assert page.locator(".wb-findings-box .wb-stale-note").count() == 1
+    assert "not accepted" in widget(page, "wb-status").inner_text()
+    assert results_of(page) == results1, "the last valid results were not kept"
+    assert bokeh_columns(page, "y") == data1, "the figures changed on a refused entry"
+    assert page.locator(".wb-findings-box .wb-finding").count() >= 1
+    screenshot(page, f"study-{study.kind}-refused", locator=panel)
+
+    # 5. fix, record, export ---------------------------------------------------
+    type_into_field(page, f".{study.field_class} .wb-entry", study.good)
+    wait_until(
+        page,
+        lambda: "wb-invalid" not in (row.get_attribute("class") or "") and not stale_shown(page),
+        message="the fixed entry was not accepted",
+    )
+    wait_for_idle(page)
+    assert results_of(page) == results1
+    assert "not accepted" not in row.locator(".wb-message").inner_text()
+
+    panel.locator("button.wb-record").click()
+    widget(page, "wb-record-status").locator(".wb-recorded").wait_for(state="visible")
+    wait_for_idle(page)
+    assert record_json.is_file(), f"no record at {record_json}"
+    record = json.loads(record_json.read_text(encoding="utf-8"))
+    entry_rec = study_in_record(record, study.kind)
+    assert entry_rec is not None, f"{study.kind} not in the record's studies"
+    section, key = study.field.split(".")
+    recorded = entry_rec["inputs"][section][key]["si"]
+    assert math.isclose(recorded, study.good_si, rel_tol=1e-6), (recorded, study.good_si)
+    sources = sorted({f["source"] for f in entry_rec["findings"] if f.get("source")})
+    assert sources, "the recorded findings name no source"
+    assert record_json.name in widget(page, "wb-record-status").inner_text()
+
+    panel.locator("button.wb-export").click()
+    widget(page, "wb-record-status").locator(".wb-exported").wait_for(state="visible")
+    wait_for_idle(page)
+    assert record_html.is_file(), f"no review copy at {record_html}"
+    assert_no_cell_errors(page)
+
+    # 6. screenshots of the panel after the interaction ------------------------
+    shot = screenshot(page, f"study-{study.kind}", locator=panel)
+    assert shot.stat().st_size > 10_000
+    if study.kind == DOCS_STUDY and os.environ.get("WORKBOOK_UPDATE_SCREENSHOT") == "1":
+        save_docs_screenshot(page, panel)
+    browser_log.assert_clean()
+
+    # 5 (end). the review copy, served by the lab server, in the browser -------
+    rel = record_html.relative_to(lab_server.root_dir).as_posix()
+    url = f"{lab_server.url}files/{urllib.parse.quote(rel)}?token={lab_server.token}"
+    response = page.goto(url, wait_until="load")
+    assert response is not None and response.ok, response and response.status
+    text = page.locator("body").inner_text()
+    assert "Caution" in text
+    assert entry_rec["title"] in text
+    missing = [s for s in sources if s not in text]
+    assert not missing, f"finding sources not in the review copy: {missing}"
+    screenshot(page, f"study-{study.kind}-export")
+    browser_log.assert_clean()
+
+
+def save_docs_screenshot(page, panel) -> Path:
+    """Results, checks and the figure of the panel, small enough for the README."""
+    results = panel.locator(".wb-results-box").first
+    plots = panel.locator(".wb-plots").first
+    plots.scroll_into_view_if_needed()
+    results.scroll_into_view_if_needed()
+    page.set_viewport_size({"width": 1400, "height": 1400})
+    page.wait_for_timeout(300)
+    results.scroll_into_view_if_needed()
+    page.wait_for_timeout(300)
+    path = screenshot_region(page, DOCS_SCREENSHOT, [results, plots], padding=6)
+    page.set_viewport_size({"width": 1400, "height": 1000})
+    assert path.stat().st_size < DOCS_SCREENSHOT_MAX_BYTES, path.stat().st_size
+    return path

@@ -1,0 +1,307 @@
+"""The command line: ``axisbook`` (or ``python -m workbook``) over the same library.
+
+Subcommands::
+
+    axisbook evaluate DESIGN.toml [--out DIR] [--axis AXIS ...] [--study KIND ...] [--markdown]
+    axisbook export RECORD.json [--html FILE | --markdown FILE]
+    axisbook compare OLD.json NEW.json [--rtol R]
+    axisbook recheck RECORD.json [--rtol R] [--atol A]
+
+Exit codes (the same for every subcommand):
+
+* ``0``: all is well (no failing finding; records equal; nothing drifted);
+* ``1``: a check did not pass (a finding is "fail"; the records differ; a result drifted);
+* ``2``: bad input or usage (a wrong design file, a damaged record, a missing file, an
+  unknown option). The message is one line on stderr, ``axisbook: error: ...``, naming the
+  file, line and key where it can, and what is allowed; never a traceback.
+
+>>> main(["evaluate", "no-such-design.toml"])
+2
+"""
+
+from __future__ import annotations
+
+import argparse
+import sys
+import textwrap
+from pathlib import Path
+
+from . import CAUTION, __version__
+
+PROG = "axisbook"
+EXIT_OK, EXIT_CHECK, EXIT_INPUT = 0, 1, 2
+
+EXIT_TEXT = """\
+exit codes:
+  0  all is well
+  1  a check did not pass (a failing finding, records that differ, a drifted result)
+  2  bad input or usage (the message names the file, line and key, and what is allowed)"""
+
+_DESCRIPTIONS = {
+    "top": (
+        "Design workbook for flow-controlled hydraulic cylinder axes, from the command line.\n\n"
+        "Evaluate a design file into design records, export a record for review, compare two "
+        "records, or re-check a saved record against the current library.\n\n" + CAUTION,
+        "examples:\n"
+        "  axisbook evaluate notebooks/designs/bin-tipper.toml --out records-out\n"
+        "  axisbook compare old/bin-tipper-lift.json records-out/bin-tipper-lift.json\n\n" + EXIT_TEXT,
+    ),
+    "evaluate": (
+        "Run the studies on every axis of a design file (TOML) and write one design record per "
+        "axis, DIR/<design>-<axis>.json, with an HTML review copy beside it (and Markdown with "
+        "--markdown). Prints the caution and a summary of the findings of each axis.\n\n"
+        "The restrictor-sizing and speed-vs-load studies compare candidate restrictors and grade "
+        "each one, so a candidate that does not suit (a long throttle over a wide oil "
+        "temperature range) is a failing finding too. To gate a CI job on the axis as drawn, "
+        "evaluate with --study axis-check.",
+        "examples:\n"
+        "  axisbook evaluate notebooks/designs/bin-tipper.toml\n"
+        "  axisbook evaluate notebooks/designs/bin-tipper.toml --out build/records --axis lift --markdown\n"
+        "  axisbook evaluate notebooks/designs/bin-tipper.toml --study axis-check\n\n"
+        "exit codes: 0 no failing finding, 1 a failing finding, 2 bad input",
+    ),
+    "export": (
+        "Write the review form of a saved design record: self-contained HTML (the default, "
+        "beside the record with the suffix .html) or Markdown.",
+        "examples:\n"
+        "  axisbook export records-out/bin-tipper-lift.json\n"
+        "  axisbook export records-out/bin-tipper-lift.json --markdown lift.md\n\n"
+        "exit codes: 0 written, 2 bad input",
+    ),
+    "compare": (
+        "List what moved from one record of an axis to another: identity, studies, inputs, "
+        "results (with the relative change), finding levels, curves and notes.",
+        "example:\n"
+        "  axisbook compare old/bin-tipper-tip.json records-out/bin-tipper-tip.json\n\n"
+        "exit codes: 0 nothing moved, 1 something moved, 2 bad input",
+    ),
+    "recheck": (
+        "Re-run every study of a saved record with the library as installed now, on the inputs "
+        "the record holds, and list what drifted: results beyond the tolerance, findings whose "
+        "level changed, results, findings or curves that appeared or vanished, and studies the "
+        "library now refuses. A result drifts when |new - old| > max(rtol*|old|, atol); atol is "
+        "in the result's display unit (bar, mm/s, kW, ...) and keeps round-off near zero quiet.",
+        "example:\n"
+        "  axisbook recheck records-out/bin-tipper-lift.json --rtol 1e-6\n\n"
+        "exit codes: 0 nothing drifted, 1 drift, 2 bad input",
+    ),
+}
+
+
+class _UsageError(Exception):
+    pass
+
+
+class _Parser(argparse.ArgumentParser):
+    """argparse that prints ``axisbook: error: ...`` and exits 2, as every other input error."""
+
+    def error(self, message):  # noqa: D401 - argparse API
+        self.print_usage(sys.stderr)
+        self.exit(EXIT_INPUT, f"{PROG}: error: {message}\n")
+
+
+def _formatter(prog):
+    return argparse.RawDescriptionHelpFormatter(prog, max_help_position=30, width=96)
+
+
+def _wrap(text: str) -> str:
+    return "\n\n".join(textwrap.fill(p, 90) for p in text.split("\n\n"))
+
+
+def _tolerance(text: str) -> float:
+    try:
+        value = float(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"got {text!r}; allowed: a number of 0 or more, e.g. 1e-6") from None
+    if not value >= 0 or value == float("inf"):
+        raise argparse.ArgumentTypeError(f"got {text!r}; allowed: a finite number of 0 or more, e.g. 1e-6")
+    return value
+
+
+def build_parser() -> argparse.ArgumentParser:
+    """The argument parser of ``axisbook`` (its help texts carry examples)."""
+    desc, epi = _DESCRIPTIONS["top"]
+    parser = _Parser(prog=PROG, description=_wrap(desc), epilog=epi, formatter_class=_formatter)
+    parser.add_argument("--version", action="version", version=f"{PROG} (workbook {__version__})")
+    sub = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
+
+    def add(name, help_):
+        d, e = _DESCRIPTIONS[name]
+        return sub.add_parser(name, help=help_, description=_wrap(d), epilog=e, formatter_class=_formatter)
+
+    p = add("evaluate", "evaluate a design file into design records")
+    p.add_argument("design", metavar="DESIGN.toml", help="the design file")
+    p.add_argument("--out", metavar="DIR", default="records-out",
+                   help="folder for the records and review copies (default: records-out)")
+    p.add_argument("--axis", metavar="AXIS", nargs="+", action="extend", dest="axes",
+                   help="evaluate only these axes (keys of [axes.<key>]); default: every axis")
+    p.add_argument("--study", metavar="KIND", nargs="+", action="extend", dest="studies",
+                   help="run only these studies (axis-check, restrictor-sizing, speed-vs-load, rod-pressure, "
+                        "counterbalance); default: all of them")
+    p.add_argument("--markdown", action="store_true", help="also write a Markdown review copy of each record")
+    p.set_defaults(run=_cmd_evaluate)
+
+    p = add("export", "write the HTML or Markdown review form of a record")
+    p.add_argument("record", metavar="RECORD.json", help="a saved design record")
+    group = p.add_mutually_exclusive_group()
+    group.add_argument("--html", metavar="FILE", help="write HTML here (default: beside the record, .html)")
+    group.add_argument("--markdown", metavar="FILE", help="write Markdown here instead of HTML")
+    p.set_defaults(run=_cmd_export)
+
+    p = add("compare", "list what moved between two records of an axis")
+    p.add_argument("old", metavar="OLD.json", help="the earlier record")
+    p.add_argument("new", metavar="NEW.json", help="the later record")
+    p.add_argument("--rtol", type=_tolerance, default=0.0, metavar="R",
+                   help="results within this relative change count as unmoved (default: 0, any change)")
+    p.set_defaults(run=_cmd_compare)
+
+    p = add("recheck", "re-run a record's studies with the current library and list drift")
+    p.add_argument("record", metavar="RECORD.json", help="a saved design record")
+    p.add_argument("--rtol", type=_tolerance, default=1e-6, metavar="R",
+                   help="relative tolerance (default: 1e-6)")
+    p.add_argument("--atol", type=_tolerance, default=1e-9, metavar="A",
+                   help="absolute floor in each result's display unit (default: 1e-9)")
+    p.set_defaults(run=_cmd_recheck)
+    return parser
+
+
+# ---------------------------------------------------------------------------- formatting
+def _num(v) -> str:
+    if v is None:
+        return "n/a"
+    if isinstance(v, (list, tuple)):
+        return ", ".join(_num(x) for x in v)
+    return "0" if v == 0 else f"{v:.4g}"
+
+
+def finding_line(study: str, f: dict) -> str:
+    """One line of the evaluate summary for a finding.
+
+    >>> finding_line("axis-check", {"level": "fail", "rule_id": "P-ROD-RATING", "statement": "Rod side within rating",
+    ...     "value": 342.1, "limit": 210.0, "unit": "bar", "source": "user's data sheet"})
+    "  FAIL     P-ROD-RATING [axis-check] Rod side within rating: 342.1 bar vs limit 210 bar (source: user's data sheet)"
+    """
+    unit = f" {f['unit']}" if f.get("unit") else ""
+    statement = f["statement"].rstrip().rstrip(".")
+    return (f"  {f['level'].upper():<8} {f['rule_id']} [{study}] {statement}: "
+            f"{_num(f.get('value'))}{unit} vs limit {_num(f.get('limit'))}{unit} (source: {f['source']})")
+
+
+def axis_summary(record, path: Path) -> list[str]:
+    """Summary lines of one evaluated axis: counts per level, then each fail and caution."""
+    findings = record.findings()
+    counts = {lvl: sum(1 for f in findings if f["level"] == lvl) for lvl in ("fail", "caution", "pass")}
+    lines = [f"Axis {record.axis}: {counts['fail']} fail, {counts['caution']} caution, {counts['pass']} pass "
+             f"-> {path}"]
+    lines += [finding_line(f["study"], f) for f in findings if f["level"] in ("fail", "caution")]
+    lines += [f"  note: {n}" for n in record.notes[1:]]
+    return lines
+
+
+# ---------------------------------------------------------------------------- commands
+def _cmd_evaluate(args) -> int:
+    from .design import load_design
+    from .record import export_html, export_markdown, save
+    from .review import DEFAULT_STUDIES, evaluate_design
+
+    from .errors import InputError
+    from .studies import KINDS
+
+    design = load_design(args.design)
+    kinds = tuple(dict.fromkeys(args.studies)) if args.studies else DEFAULT_STUDIES
+    for kind in kinds:
+        if kind not in KINDS:
+            raise InputError("--study", repr(kind), "one of " + ", ".join(DEFAULT_STUDIES))
+    for key in args.axes or ():
+        if key not in design.axes:
+            raise InputError("--axis", repr(key), f"one of the axes of {design.source}: " + ", ".join(design.axes))
+    evaluated = evaluate_design(design, studies=kinds, axes=args.axes)
+    out = Path(args.out)
+    out.mkdir(parents=True, exist_ok=True)
+    stem = Path(args.design).stem
+    lines = [CAUTION, "", f"Design {design.source}: {design.machine.get('machine', '')}, "
+             f"revision {design.machine.get('revision', '')}; studies: {', '.join(kinds)}", ""]
+    failing = []
+    for axis_key, (record, _outcomes) in evaluated.items():
+        path = save(record, out / f"{stem}-{axis_key}.json")
+        export_html(record, path.with_suffix(".html"))
+        if args.markdown:
+            export_markdown(record, path.with_suffix(".md"))
+        lines += axis_summary(record, path)
+        lines.append("")
+        if any(f["level"] == "fail" for f in record.findings()):
+            failing.append(axis_key)
+    written = "HTML" + (" and Markdown" if args.markdown else "")
+    lines.append(f"Wrote {len(evaluated)} record(s) with {written} review copies to {out}.")
+    if failing:
+        lines.append(f"Result: FAIL on axis {', '.join(failing)} (exit code 1).")
+    else:
+        lines.append("Result: no failing finding (exit code 0). Cautions still need a look.")
+    print("\n".join(lines))
+    return EXIT_CHECK if failing else EXIT_OK
+
+
+def _cmd_export(args) -> int:
+    from .record import export_html, export_markdown, load
+
+    record = load(args.record)
+    if args.markdown:
+        path = export_markdown(record, args.markdown)
+    else:
+        path = export_html(record, args.html or Path(args.record).with_suffix(".html"))
+    print(f"Wrote {path}")
+    return EXIT_OK
+
+
+def _cmd_compare(args) -> int:
+    from .record import diff, load
+
+    old, new = load(args.old), load(args.new)
+    d = diff(old, new, rtol=args.rtol)
+    print(f"Compare {args.old} -> {args.new}")
+    print(d.to_text())
+    return EXIT_OK if d.is_empty else EXIT_CHECK
+
+
+def _cmd_recheck(args) -> int:
+    from .record import load
+    from .review import recheck
+
+    report = recheck(load(args.record), rtol=args.rtol, atol=args.atol)
+    print(f"Record {args.record}")
+    print(report.to_text())
+    return EXIT_OK if report.ok else EXIT_CHECK
+
+
+# ---------------------------------------------------------------------------- entry point
+def _os_message(exc: OSError) -> str:
+    where = exc.filename or ""
+    what = exc.strerror or str(exc)
+    return f"{where}: {what}" if where else what
+
+
+def main(argv=None) -> int:
+    """Run the command line with ``argv`` (default: ``sys.argv[1:]``); return the exit code."""
+    for stream in (sys.stdout, sys.stderr):
+        try:
+            stream.reconfigure(errors="replace")
+        except (AttributeError, ValueError):
+            pass
+    parser = build_parser()
+    args = parser.parse_args(argv)
+    if getattr(args, "run", None) is None:
+        parser.print_help()
+        return EXIT_INPUT
+    from .errors import InputError
+
+    try:
+        return args.run(args)
+    except InputError as exc:  # includes DesignFileError and RecordError
+        message = str(exc)
+    except OSError as exc:
+        message = _os_message(exc)
+    print(f"{PROG}: error: {message}", file=sys.stderr)
+    return EXIT_INPUT
+
+
+__all__ = ["main", "build_parser", "finding_line", "axis_summary", "EXIT_OK", "EXIT_CHECK", "EXIT_INPUT"]
