@@ -245,6 +245,8 @@ def _cmd_export(args) -> int:
     from .record import export_html, export_markdown, load
 
     record = load(args.record)
+    target = Path(args.markdown or args.html or Path(args.record).with_suffix(".html"))
+    target.parent.mkdir(parents=True, exist_ok=True)
     if args.markdown:
         path = export_markdown(record, args.markdown)
     else:

@@ -746,3 +746,26 @@ def screenshot_region(page, path, locators, padding: int = 8) -> Path:
     path.parent.mkdir(parents=True, exist_ok=True)
     page.screenshot(path=str(path), clip=union_box(page, locators, padding), scale="css")
     return path
+
+
+def screenshot_whole(page, name: str, locator, margin: int = 200, max_height: int = 8000) -> Path:
+    """Screenshot of an element taller than the window (e.g. a whole panel).
+
+    JupyterLab scrolls inside its own panes, so a plain element screenshot
+    of something taller than the viewport comes out cut or blank. The window
+    is made tall enough for the element, the shot taken, and the window
+    size put back.
+    """
+    old = page.viewport_size
+    height = locator.evaluate("el => Math.ceil(el.getBoundingClientRect().height)")
+    width = old["width"] if old else 1400
+    page.set_viewport_size({"width": width, "height": min(max_height, max(height + margin, 600))})
+    try:
+        page.wait_for_timeout(400)  # let the lab re-lay out and bokeh repaint
+        locator.scroll_into_view_if_needed()
+        page.wait_for_timeout(200)
+        return screenshot(page, name, locator=locator)
+    finally:
+        if old:
+            page.set_viewport_size(old)
+            page.wait_for_timeout(200)

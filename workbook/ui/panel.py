@@ -167,7 +167,8 @@ class StudyPanel:
             self._mark_stale(f"{bad[0].section}.{bad[0].field.key} was not accepted.")
             return False
         try:
-            outcome = self.study.run(self.values)
+            # the outcome keeps its own copy: later entries must not rewrite the inputs it shows
+            outcome = self.study.run(copy.deepcopy(self.values))
         except InputError as exc:
             self.error = exc
             target = self._control_named(exc.field)
