@@ -139,7 +139,7 @@ class Field:
 
         Raises :class:`~workbook.errors.InputError` naming this field.
         """
-        if value is None:
+        if value is None or (self.optional and isinstance(value, str) and not value.strip()):
             if self.optional:
                 return None
             raise InputError(self.key, "nothing", self.allowed())

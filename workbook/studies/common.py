@@ -23,10 +23,26 @@ def build_axis(values) -> Axis:
     return axis_from_values(values)
 
 
-def sweep(values, n: int | None = None) -> np.ndarray:
-    """Loads of the sweep, N: from ``study.load_min`` to ``study.load_max`` (and the load cases)."""
+def sweep_range(values) -> tuple[float, float]:
+    """``(lowest, highest)`` load of the curves, N.
+
+    ``study.load_min`` / ``study.load_max`` when given; otherwise the load cases' range
+    widened by a quarter of its span on each side (at least 1 kN wide).
+    """
     st = values["study"]
-    lo, hi = st["load_min"], st["load_max"]
+    cases = np.asarray(values["operation"]["loads"], dtype=float)
+    span = max(float(cases.max() - cases.min()), 1e3)
+    lo = st.get("load_min")
+    hi = st.get("load_max")
+    lo = float(cases.min() - 0.25 * span) if lo is None else lo
+    hi = float(cases.max() + 0.25 * span) if hi is None else hi
+    return lo, hi
+
+
+def sweep(values, n: int | None = None) -> np.ndarray:
+    """Loads of the curves, N, from :func:`sweep_range`, ``study.points`` of them."""
+    st = values["study"]
+    lo, hi = sweep_range(values)
     if not lo < hi:
         raise InputError("study.load_max", f"{hi / 1e3:g} kN", f"a load above the lowest sweep load ({lo / 1e3:g} kN)")
     n = int(n or st.get("points", 400))

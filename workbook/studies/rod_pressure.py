@@ -1,7 +1,7 @@
 """Rod-side pressure check: every operating case against the cylinder, hose and valve ratings.
 
-Cases, over the load sweep and both ends of the oil temperature range (the higher pressure
-of the two is kept):
+Cases, at every load case of the design (findings and results) and over a load sweep (the
+curves), at both ends of the oil temperature range (the higher pressure of the two is kept):
 
 * extending and retracting with the flow valve as designed;
 * the controlled motion with the flow valve fully closed (opening 0). With meter-out the
@@ -51,11 +51,14 @@ def _worst(sol, name):
     return np.max(np.asarray(getattr(sol, name)), axis=1)
 
 
-def cases(values):
-    """Solve every case; return ``{case: (p1, p3, regimes)}`` over the sweep and the sweep loads."""
+def cases(values, loads=None):
+    """Solve every case; return ``(axis, loads, {case: (p1, p3, regimes)})``.
+
+    ``loads`` defaults to the curve sweep; the findings use the design's load cases.
+    """
     axis = build_axis(values)
     op = values["operation"]
-    loads = sweep(values)
+    loads = sweep(values) if loads is None else np.asarray(loads, dtype=float)
     temps = np.array([op["temp_min"], op["temp_max"]])
     out = {}
     for direction in ("extend", "retract"):
@@ -85,7 +88,8 @@ def largest_safe_rod(axis, p_supply: float, pull: float, rating: float) -> float
 
 
 def run(values) -> Outcome:
-    axis, loads, solved = cases(values)
+    axis, loads, solved = cases(values, values["operation"]["loads"])   # the design's load cases
+    _, sweep_loads, curves = cases(values)                              # the curves
     rt = values["ratings"]
     margin_share = values["limits"]["pressure_margin"]
     ratings = {
@@ -146,7 +150,7 @@ def run(values) -> Outcome:
             "common practice", (lowest - p_rod_max) / lowest))
     series = {}
     regimes = {}
-    for case, (p1, p3, reg) in solved.items():
+    for case, (p1, p3, reg) in curves.items():
         series[f"cap, {case}"] = curve(p1 / 1e5)
         series[f"rod, {case}"] = curve(p3 / 1e5)
         regimes[f"cap, {case}"] = reg
@@ -154,7 +158,7 @@ def run(values) -> Outcome:
     figures = {
         "chamber_pressure_vs_load": {
             "title": "Chamber pressures against load (higher of cold and warm oil)",
-            "x_label": "Load [kN]", "y_label": "Pressure [bar]", "x": curve(loads / 1e3),
+            "x_label": "Load [kN]", "y_label": "Pressure [bar]", "x": curve(sweep_loads / 1e3),
             "series": series, "limits": {k: v / 1e5 for k, v in ratings.items()},
         },
     }
