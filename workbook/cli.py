@@ -88,10 +88,6 @@ _DESCRIPTIONS = {
 }
 
 
-class _UsageError(Exception):
-    pass
-
-
 class _Parser(argparse.ArgumentParser):
     """argparse that prints ``axisbook: error: ...`` and exits 2, as every other input error."""
 
@@ -134,10 +130,11 @@ def build_parser() -> argparse.ArgumentParser:
     p.add_argument("--out", metavar="DIR", default="records-out",
                    help="folder for the records and review copies (default: records-out)")
     p.add_argument("--axis", metavar="AXIS", nargs="+", action="extend", dest="axes",
-                   help="evaluate only these axes (keys of [axes.<key>]); default: every axis")
+                   help="evaluate only these axes (keys of [axes.<key>]; give DESIGN.toml first); "
+                        "default: every axis")
     p.add_argument("--study", metavar="KIND", nargs="+", action="extend", dest="studies",
                    help="run only these studies (axis-check, restrictor-sizing, speed-vs-load, rod-pressure, "
-                        "counterbalance); default: all of them")
+                        "counterbalance; give DESIGN.toml first); default: all of them")
     p.add_argument("--markdown", action="store_true", help="also write a Markdown review copy of each record")
     p.set_defaults(run=_cmd_evaluate)
 

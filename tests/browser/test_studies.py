@@ -269,9 +269,15 @@ def save_docs_screenshot(page, panel) -> Path:
         page.wait_for_timeout(400)
         panel.scroll_into_view_if_needed()
         page.wait_for_timeout(200)
-        path = screenshot_region(page, DOCS_SCREENSHOT, [results, plots], padding=6)
+        path = screenshot_region(page, DOCS_SCREENSHOT, [results, plots], padding=0)
     finally:
         page.set_viewport_size(old)
+    # A 256-colour palette keeps the picture sharp (flat UI colours) and small.
+    from PIL import Image
+
+    with Image.open(path) as image:
+        small = image.convert("RGB").quantize(colors=256, method=Image.Quantize.MEDIANCUT)
+    small.save(path, optimize=True)
     size = path.stat().st_size
     assert size < DOCS_SCREENSHOT_MAX_BYTES, f"{path} is {size} bytes"
     return path

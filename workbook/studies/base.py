@@ -85,6 +85,17 @@ def finding(rule_id: str, statement: str, quantity: str, value, limit, dimension
     }
 
 
+def as_alternative(item: dict, what: str) -> dict:
+    """A finding about an alternative the design did not choose: a miss is a caution, not a
+    fail (it informs the choice; it does not make the axis unsafe)."""
+    out = dict(item)
+    if out["level"] == "fail":
+        out["level"] = "caution"
+    note = f"{what} is an alternative, not the design's valve"
+    out["detail"] = f"{out['detail']}; {note}" if out.get("detail") else note
+    return out
+
+
 def sort_findings(items: Iterable[Mapping]) -> list[dict]:
     """Findings sorted fail, caution, pass (stable within a level)."""
     return sorted((dict(f) for f in items), key=lambda f: LEVEL_ORDER.get(f["level"], 3))
@@ -172,4 +183,4 @@ def _num(v) -> str:
     return f"{v:.4g}"
 
 
-__all__ = ["Outcome", "result", "ratio_result", "finding", "grade", "sort_findings", "curve", "LEVEL_ORDER"]
+__all__ = ["Outcome", "as_alternative", "result", "ratio_result", "finding", "grade", "sort_findings", "curve", "LEVEL_ORDER"]

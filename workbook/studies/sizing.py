@@ -21,7 +21,7 @@ import numpy as np
 from .. import restrictor as rs
 from ..errors import InputError
 from ..fluid import Oil
-from .base import Outcome, curve, finding, grade, ratio_result, result
+from .base import Outcome, as_alternative, curve, finding, grade, ratio_result, result
 
 KIND = "restrictor-sizing"
 TITLE = "Restrictor sizing"
@@ -42,6 +42,8 @@ FIELDS = (
 SMALL_ORIFICE = 0.8e-3
 
 CANDIDATES = ("orifice (drilled)", "long throttle", "needle throttle")
+#: the design's ``flow_valve.kind`` -> the candidate that is the design's own restrictor
+DESIGN_KIND = {"orifice": "orifice (drilled)", "throttle": "long throttle", "needle": "needle throttle"}
 
 
 def run(values) -> Outcome:
@@ -109,11 +111,13 @@ def run(values) -> Outcome:
         res[f"{key}_flow_cold"] = result(f"Flow {name}, cold oil", float(qf[0]), "flow", "L/min")
         res[f"{key}_flow_warm"] = result(f"Flow {name}, warm oil", float(qf[-1]), "flow", "L/min")
         level, margin = grade(spread, tol, 0.25 * tol)
-        findings.append(finding(
+        chosen = DESIGN_KIND.get(fv["kind"]) == name
+        mark = (lambda f: f) if chosen else (lambda f, n=name: as_alternative(f, f"the {n}"))
+        findings.append(mark(finding(
             f"SZ-TEMP-{key.upper()}", f"Flow of the {name} stays within the speed tolerance over the oil "
             "temperature range", f"flow change of the {name}", spread, tol, "dimensionless", "%", level,
             "common practice", margin,
-            detail=f"regime at sizing temperature: {str(np.asarray(flow_dp[name].regime)[-1])}"))
+            detail=f"regime at sizing temperature: {str(np.asarray(flow_dp[name].regime)[-1])}")))
 
     figures = {
         "flow_vs_drop": {
