@@ -17,8 +17,11 @@ $(STAMP): pyproject.toml
 	$(BIN)/python -m pip install --quiet -e '.[test]'
 	touch $(STAMP)
 
+# JupyterLab refuses to run as root unless told; a fresh container often is root
+ROOT_FLAG := $(if $(filter 0,$(shell id -u)),--allow-root,)
+
 lab: $(STAMP)
-	$(BIN)/jupyter lab --notebook-dir=notebooks --port=$(PORT) 1-restrictor-sizing.ipynb
+	$(BIN)/jupyter lab --ServerApp.root_dir=notebooks --port=$(PORT) $(ROOT_FLAG) notebooks/1-restrictor-sizing.ipynb
 
 test: $(STAMP)
 	$(BIN)/python -m pytest --nbval workbook tests notebooks

@@ -13,21 +13,15 @@ import numpy as np
 from ..checks import evaluate
 from ..circuit import solve
 from .base import Outcome, finding, result
-from .common import AXIS_FIELDS, build_axis
+from .common import AXIS_FIELDS, FLOW_VALVE_FIELDS, HOLDING_FIELDS, build_axis
 
 KIND = "axis-check"
 TITLE = "Axis check"
 PURPOSE = "Every design rule on the axis as designed, over its load cases, temperatures and directions."
 NORMAL_REGIME = None
 
-FIELDS = AXIS_FIELDS + (
+FIELDS = AXIS_FIELDS + FLOW_VALVE_FIELDS + HOLDING_FIELDS + (
     ("cylinder", "stroke"),
-    ("flow_valve", "arrangement"), ("flow_valve", "direction"), ("flow_valve", "kind"), ("flow_valve", "diameter"),
-    ("flow_valve", "length"), ("flow_valve", "cd"), ("flow_valve", "seat_diameter"), ("flow_valve", "half_angle"),
-    ("flow_valve", "turns"), ("flow_valve", "pitch"), ("flow_valve", "setting"), ("flow_valve", "compensator_drop"),
-    ("flow_valve", "min_drop"), ("flow_valve", "droop"), ("flow_valve", "check_cracking"),
-    ("holding", "kind"), ("holding", "side"), ("holding", "setting"), ("holding", "pilot_ratio"),
-    ("holding", "gradient"), ("holding", "check_cracking"),
     ("operation", "mass"),
     ("ratings", "hose_rating"), ("ratings", "valve_rating"), ("ratings", "pressure_line_bore"),
     ("ratings", "return_line_bore"), ("ratings", "suction_line_bore"),
@@ -35,6 +29,11 @@ FIELDS = AXIS_FIELDS + (
     ("limits", "heat_share"), ("limits", "v_suction"), ("limits", "v_return"), ("limits", "v_pressure"),
 )
 
+#: the inputs the panel keeps in view (the rest fold away by section)
+KEY_FIELDS = (
+    ("cylinder", "bore"), ("cylinder", "rod"), ("flow_valve", "arrangement"), ("flow_valve", "setting"),
+    ("holding", "setting"), ("operation", "loads"),
+)
 #: display unit of each dimension in findings
 DISPLAY_UNIT = {"pressure": "bar", "velocity": "m/s", "power": "kW", "flow": "L/min", "force": "kN",
                 "length": "mm", "temperature": "degC", "dimensionless": ""}

@@ -144,10 +144,21 @@ class Outcome:
         return min(levels, key=lambda lv: LEVEL_ORDER.get(lv, 3))
 
     def recorded_values(self) -> dict:
-        """The inputs this study depends on (its FIELDS), as SI values by section."""
+        """Every axis input the study ran on, as SI values by section.
+
+        The study's FIELDS (what its panel shows) come first; every other field of the axis
+        sections follows, so that a re-check re-runs on exactly these inputs and never on a
+        catalogue default that the design had changed.
+        """
         out: dict = {}
         for section, key in self.fields:
             out.setdefault(section, {})[key] = self.values[section][key]
+        for sec in inputs.AXIS_SECTIONS:
+            if sec.key not in self.values:
+                continue
+            for f in sec.fields:
+                if f.key in self.values[sec.key]:
+                    out.setdefault(sec.key, {}).setdefault(f.key, self.values[sec.key][f.key])
         return out
 
     def to_study(self, notes: Iterable[str] = ()) -> Study:

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import numpy as np
 
+from .. import inputs
 from ..circuit import Axis, axis_from_values
 from ..errors import InputError
 
@@ -16,6 +17,18 @@ AXIS_FIELDS = (
     ("operation", "tank_pressure"), ("operation", "target_speed"), ("operation", "speed_tolerance"),
     ("oil", "grade"), ("oil", "nu40"), ("oil", "nu100"),
 )
+
+
+
+
+def section_fields(section: str, *, without: tuple = ()) -> tuple:
+    """Every field of a catalogue section as ``(section, key)`` pairs (less ``without``)."""
+    return tuple((section, key) for key in inputs.section(section).keys if key not in without)
+
+
+#: the whole flow valve and holding valve, as the axis studies record them
+FLOW_VALVE_FIELDS = section_fields("flow_valve")
+HOLDING_FIELDS = section_fields("holding")
 
 
 def build_axis(values) -> Axis:

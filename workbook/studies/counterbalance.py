@@ -27,7 +27,7 @@ from ..circuit import solve
 from ..valve import BackPressureValve, CheckValve, CounterbalanceValve
 from ..errors import InputError
 from .base import Outcome, curve, finding, grade, result
-from .common import AXIS_FIELDS, build_axis, regime_list, sweep
+from .common import AXIS_FIELDS, FLOW_VALVE_FIELDS, build_axis, section_fields, regime_list, sweep
 
 KIND = "counterbalance"
 TITLE = "Counterbalance setting"
@@ -36,18 +36,17 @@ PURPOSE = ("Set the counterbalance valve from the load cases, compare pilot rati
            "against the ratings.")
 NORMAL_REGIME = None
 
-FIELDS = AXIS_FIELDS + (
-    ("flow_valve", "arrangement"), ("flow_valve", "direction"), ("flow_valve", "kind"), ("flow_valve", "diameter"),
-    ("flow_valve", "length"), ("flow_valve", "cd"), ("flow_valve", "seat_diameter"), ("flow_valve", "half_angle"),
-    ("flow_valve", "turns"), ("flow_valve", "pitch"), ("flow_valve", "setting"), ("flow_valve", "compensator_drop"),
-    ("flow_valve", "min_drop"), ("flow_valve", "droop"), ("flow_valve", "check_cracking"),
-    ("holding", "side"), ("holding", "setting"), ("holding", "pilot_ratio"), ("holding", "gradient"),
-    ("holding", "check_cracking"),
+FIELDS = AXIS_FIELDS + FLOW_VALVE_FIELDS + section_fields("holding", without=("kind",)) + (
     ("ratings", "hose_rating"), ("ratings", "valve_rating"),
     ("limits", "counterbalance_factor"), ("limits", "pressure_margin"), ("limits", "heat_share"),
     ("study", "pilot_ratios"), ("study", "load_min"), ("study", "load_max"), ("study", "points"),
 )
 
+#: the inputs the panel keeps in view (the rest fold away by section)
+KEY_FIELDS = (
+    ("holding", "setting"), ("holding", "pilot_ratio"), ("holding", "side"), ("study", "pilot_ratios"),
+    ("operation", "loads"), ("limits", "counterbalance_factor"), ("flow_valve", "arrangement"),
+)
 
 def lowering_direction(side: str) -> str:
     """The motion that drives oil out of the holding chamber: cap -> retract, rod -> extend."""
@@ -104,7 +103,7 @@ def run(values) -> Outcome:
     ax_bp = dataclasses.replace(base, holding=bp, holding_side=side)
     sol_bp = solve(ax_bp, loads, t_cold, direction=lower)
     name = "back-pressure valve"
-    pilot_series[name] = curve(np.asarray(sol_bp.p_pilot) / 1e5)
+    pilot_series[name] = curve(np.full(loads.size, np.nan))  # no pilot: nothing to draw
     pump_series[name] = curve(np.asarray(sol_bp.p_pump) / 1e5)
     heat_series[name] = curve(np.asarray(sol_bp.loss_holding) / 1e3)
     regimes[name] = regime_list(sol_bp)

@@ -25,7 +25,7 @@ import numpy as np
 from ..circuit import METERING, solve
 from ..cylinder import ISO3320_RODS_MM
 from .base import Outcome, curve, finding, grade, result
-from .common import AXIS_FIELDS, build_axis, regime_list, sweep
+from .common import AXIS_FIELDS, FLOW_VALVE_FIELDS, HOLDING_FIELDS, build_axis, regime_list, sweep
 
 KIND = "rod-pressure"
 TITLE = "Rod-side pressure check"
@@ -33,18 +33,17 @@ PURPOSE = ("Chamber pressures in every operating case, including the flow valve 
            "overrunning load, in both directions, against the cylinder, hose and valve ratings.")
 NORMAL_REGIME = None
 
-FIELDS = AXIS_FIELDS + (
+FIELDS = AXIS_FIELDS + FLOW_VALVE_FIELDS + HOLDING_FIELDS + (
     ("cylinder", "stroke"),
-    ("flow_valve", "arrangement"), ("flow_valve", "direction"), ("flow_valve", "kind"), ("flow_valve", "diameter"),
-    ("flow_valve", "length"), ("flow_valve", "cd"), ("flow_valve", "seat_diameter"), ("flow_valve", "half_angle"),
-    ("flow_valve", "turns"), ("flow_valve", "pitch"), ("flow_valve", "setting"), ("flow_valve", "compensator_drop"),
-    ("flow_valve", "min_drop"), ("flow_valve", "droop"), ("flow_valve", "check_cracking"),
-    ("holding", "kind"), ("holding", "side"), ("holding", "setting"), ("holding", "pilot_ratio"),
-    ("holding", "gradient"), ("holding", "check_cracking"),
     ("ratings", "hose_rating"), ("ratings", "valve_rating"), ("limits", "pressure_margin"),
     ("study", "load_min"), ("study", "load_max"), ("study", "points"),
 )
 
+#: the inputs the panel keeps in view (the rest fold away by section)
+KEY_FIELDS = (
+    ("cylinder", "bore"), ("cylinder", "rod"), ("cylinder", "rated_pressure"), ("flow_valve", "arrangement"),
+    ("supply", "relief_full_flow"), ("operation", "loads"), ("ratings", "hose_rating"), ("ratings", "valve_rating"),
+)
 
 def _worst(sol, name):
     """Highest value over the temperature axis (axis 1) of a (loads, temps) solution field."""

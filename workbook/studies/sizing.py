@@ -5,7 +5,10 @@ sizes each candidate (:mod:`workbook.restrictor`), rounds the orifice to a stand
 reports the flow the drill really passes, then shows how each candidate's flow moves with
 the drop and over the oil temperature range. The orifice barely notices the temperature
 (turbulent flow, orifice equation); the laminar throttle's flow follows the viscosity
-(Hagen-Poiseuille): this is the trade's reason to meter with sharp edges.
+(Hagen-Poiseuille): this is the trade's reason to meter with sharp edges. Near the
+laminar-turbulent transition of the throttle (Re 2300 to 4000) its flow at a fixed drop can
+even fall as the oil warms, because the friction factor rises through the transition: the
+model shows this on purpose, and a throttle sized there is a poor choice.
 
 >>> from workbook import inputs
 >>> values = {s.key: s.defaults() for s in inputs.AXIS_SECTIONS}
@@ -34,10 +37,15 @@ FIELDS = (
     ("operation", "temp_min"), ("operation", "temp_max"), ("operation", "speed_tolerance"),
     ("oil", "grade"), ("oil", "nu40"), ("oil", "nu100"), ("oil", "density15"), ("oil", "expansion"),
     ("oil", "bulk_modulus"), ("oil", "pour_point"),
-    ("flow_valve", "cd"), ("flow_valve", "length"), ("flow_valve", "seat_diameter"),
+    ("flow_valve", "kind"), ("flow_valve", "cd"), ("flow_valve", "length"), ("flow_valve", "seat_diameter"),
     ("flow_valve", "half_angle"), ("flow_valve", "pitch"),
 )
 
+#: the inputs the panel keeps in view (the rest fold away by section)
+KEY_FIELDS = (
+    ("study", "target_flow"), ("study", "available_drop"), ("study", "design_temp"),
+    ("operation", "temp_min"), ("operation", "temp_max"), ("flow_valve", "length"), ("oil", "grade"),
+)
 #: orifices below this bore clog easily without a protecting screen (common practice, from memory)
 SMALL_ORIFICE = 0.8e-3
 

@@ -26,7 +26,7 @@ from ..circuit import METERING, solve
 from ..errors import InputError
 from ..valve import CheckValve, CompensatedFlowValve, RestrictorValve
 from .base import Outcome, as_alternative, curve, finding, grade, ratio_result, result
-from .common import AXIS_FIELDS, build_axis, regime_list, sweep
+from .common import AXIS_FIELDS, HOLDING_FIELDS, build_axis, regime_list, sweep
 
 KIND = "speed-vs-load"
 TITLE = "Load sensitivity of speed"
@@ -35,15 +35,18 @@ PURPOSE = ("Speed against load for an orifice, a long throttle and a pressure-co
            "speed variation over the load range.")
 NORMAL_REGIME = METERING
 
-FIELDS = AXIS_FIELDS + (
-    ("flow_valve", "arrangement"), ("flow_valve", "direction"), ("flow_valve", "cd"), ("flow_valve", "length"),
-    ("flow_valve", "compensator_drop"), ("flow_valve", "min_drop"), ("flow_valve", "droop"),
-    ("flow_valve", "check_cracking"),
-    ("holding", "kind"), ("holding", "side"), ("holding", "setting"), ("holding", "pilot_ratio"),
-    ("holding", "gradient"), ("holding", "check_cracking"),
+FIELDS = AXIS_FIELDS + HOLDING_FIELDS + (
+    ("flow_valve", "arrangement"), ("flow_valve", "direction"), ("flow_valve", "kind"), ("flow_valve", "cd"),
+    ("flow_valve", "length"), ("flow_valve", "compensator_drop"), ("flow_valve", "min_drop"),
+    ("flow_valve", "droop"), ("flow_valve", "check_cracking"),
     ("study", "design_temp"), ("study", "load_min"), ("study", "load_max"), ("study", "points"),
 )
 
+#: the inputs the panel keeps in view (the rest fold away by section)
+KEY_FIELDS = (
+    ("cylinder", "bore"), ("cylinder", "rod"), ("flow_valve", "arrangement"), ("flow_valve", "direction"),
+    ("operation", "target_speed"), ("operation", "loads"), ("study", "design_temp"),
+)
 CANDIDATES = ("orifice", "long throttle", "compensated valve")
 SHORT = {"orifice": "orifice", "long throttle": "throttle", "compensated valve": "compensated"}
 #: the design's ``flow_valve.kind`` -> the candidate that is the design's own valve

@@ -52,33 +52,35 @@ class QuantityControl:
         self._syncing = False
         self.valid = True
         label = W.HTML(f"<b>{html.escape(field.label)}</b>",
-                       layout=W.Layout(width=LABEL_WIDTH), tooltip=field.help)
-        self.message = W.HTML("", layout=W.Layout(min_width="18em"))
+                       layout=W.Layout(width=LABEL_WIDTH, flex="0 0 auto"), tooltip=field.help)
+        self.message = W.HTML("", layout=W.Layout(flex="1 1 auto", min_width="10em"))
         self.message.add_class("wb-message")
         self.entry: W.Widget
         self.slider = None
         if field.dimension == "choice":
-            self.entry = W.Dropdown(options=list(field.choices), value=value, layout=W.Layout(width="14em"))
+            self.entry = W.Dropdown(options=list(field.choices), value=value,
+                                    layout=W.Layout(width="14em", flex="0 0 auto"))
             self.entry.observe(self._on_choice, names="value")
         elif field.dimension == "flag":
-            self.entry = W.Checkbox(value=bool(value), indent=False)
+            self.entry = W.Checkbox(value=bool(value), indent=False, layout=W.Layout(width="14em", flex="0 0 auto"))
             self.entry.observe(self._on_choice, names="value")
         else:
             self.entry = W.Text(value=self._text_of(value), continuous_update=False,
-                                placeholder=field.default_text(), layout=W.Layout(width="14em"))
+                                placeholder=field.default_text(), layout=W.Layout(width="14em", flex="0 0 auto"))
             self.entry.observe(self._on_text, names="value")
             if slider and field.slider and field.is_quantity and field.dimension != "quantity_list":
                 lo, hi, step = field.slider
                 self.slider = W.FloatSlider(min=lo, max=hi, step=step, value=self._slider_value(value),
                                             continuous_update=False, readout=False,
-                                            layout=W.Layout(width="12em"))
+                                            layout=W.Layout(width="12em", flex="0 0 auto"))
                 self.slider.observe(self._on_slider, names="value")
         self.entry.add_class("wb-entry")
         unit = W.HTML(f"<span style='color:#555'>{html.escape(field.unit)}</span>",
-                      layout=W.Layout(width="6em"))
+                      layout=W.Layout(width="7em", flex="0 0 auto"))
         parts = [label, self.entry]
-        if self.slider is not None:
-            parts.append(self.slider)
+        # every row keeps the slider's column, so units and help line up
+        parts.append(self.slider if self.slider is not None
+                     else W.HTML("", layout=W.Layout(width="12em", flex="0 0 auto")))
         parts += [unit, self.message]
         self.widget = W.HBox(parts, layout=W.Layout(align_items="center"))
         self.widget.add_class("wb-field")
@@ -170,9 +172,11 @@ class QuantityControl:
         self.valid = ok
         if ok:
             self.widget.remove_class("wb-invalid")
+            self.entry.layout.border = None
             self._show_help()
         else:
             self.widget.add_class("wb-invalid")
+            self.entry.layout.border = "2px solid #b00020"
             self.message.value = (
                 "<span style='color:#b00020'>&#9888; not accepted: "
                 f"{html.escape(given)!s}. Allowed: {html.escape(allowed)}</span>"

@@ -98,19 +98,27 @@ class StudyPanel:
 
     # ----------------------------------------------------------------- layout
     def _build(self) -> None:
-        groups: dict[str, list] = {}
-        for section, key in self.study.FIELDS:
+        fields = tuple(self.study.FIELDS)
+        key_fields = tuple(k for k in getattr(self.study, "KEY_FIELDS", fields[:6]) if k in fields)
+        for section, key in fields:
             f = inputs.section(section)[key]
             ctl = control_for(section, f, self.values[section][key])
             ctl.on_change(self._on_control)
             self.controls[(section, key)] = ctl
-            groups.setdefault(section, []).append(ctl.widget)
-        boxes = []
-        for section, rows in groups.items():
-            title = inputs.section(section).title
-            head = W.HTML(f"<h4 style='margin:6px 0 2px 0'>{html.escape(title)}</h4>")
-            boxes.append(W.VBox([head, *rows]))
-        self.form = W.VBox(boxes)
+        # the inputs that drive this study stay in view; the rest fold away by section
+        main = W.VBox([W.HTML("<h4 style='margin:6px 0 2px 0'>Main inputs</h4>")]
+                      + [self.controls[k].widget for k in key_fields])
+        main.add_class("wb-main-inputs")
+        groups: dict[str, list] = {}
+        for section, key in fields:
+            if (section, key) not in key_fields:
+                groups.setdefault(section, []).append(self.controls[(section, key)].widget)
+        folds = W.Accordion(children=[W.VBox(rows) for rows in groups.values()],
+                            titles=tuple(inputs.section(sec).title for sec in groups))
+        folds.selected_index = None
+        folds.add_class("wb-more-inputs")
+        self.folds = folds
+        self.form = W.VBox([main, W.HTML("<h4 style='margin:8px 0 2px 0'>All other inputs</h4>"), folds])
         self.form.add_class("wb-form")
         self.status = W.HTML("")
         self.status.add_class("wb-status")
@@ -118,6 +126,8 @@ class StudyPanel:
         self.findings_box = HtmlBox("wb-findings-box")
         self.plot_area = W.VBox([])
         self.plot_area.add_class("wb-plots")
+        self.plot_note = W.HTML("")
+        self.plot_note.add_class("wb-plot-note")
         self.note = W.Textarea(placeholder="Note for the record (optional)", layout=W.Layout(width="40em"))
         self.note.add_class("wb-note")
         self.record_button = W.Button(description="Record study", button_style="", icon="save",
@@ -134,8 +144,8 @@ class StudyPanel:
         caution.add_class("wb-caution-box")
         self.widget = W.VBox([
             caution, self.form, self.status,
-            W.HBox([self.results_box.widget, self.findings_box.widget], layout=W.Layout(flex_flow="row wrap")),
-            self.plot_area,
+            self.results_box.widget, self.findings_box.widget,
+            self.plot_note, self.plot_area,
             W.HBox([self.note, W.VBox([self.record_button, self.export_button])]),
             self.record_status,
         ])
@@ -182,6 +192,7 @@ class StudyPanel:
         self.compute_count += 1
         self.stale = False
         self.status.value = ""
+        self.plot_note.value = ""
         self.results_box.update(results_html(outcome.results))
         self.findings_box.update(findings_html(outcome.findings))
         self._update_plots(outcome)
@@ -199,6 +210,8 @@ class StudyPanel:
                              "Results below are out of date.</div>")
         self.results_box.mark_stale()
         self.findings_box.mark_stale()
+        self.plot_note.value = ("<div class='wb-stale-note' style='color:#8a0010;font-weight:bold'>"
+                                "&#9888; Out of date: the curves below are the last valid results.</div>")
 
     def _update_plots(self, outcome) -> None:
         changed = False
@@ -214,8 +227,7 @@ class StudyPanel:
                 changed = True
             ys = {k: np.asarray(vals, dtype=float) for k, vals in fig["series"].items()}
             plot.update(np.asarray(fig["x"], dtype=float), ys,
-                        regimes=outcome.regimes.get(key), limits=fig.get("limits"),
-                        xs=(outcome.extra_x.get(key) if hasattr(outcome, "extra_x") else None))
+                        regimes=outcome.regimes.get(key), limits=fig.get("limits"), title=fig["title"])
         if changed:
             self.plot_area.children = [self.plots[k].widget for k in outcome.figures if k in self.plots]
 

@@ -1,12 +1,15 @@
 """Live bokeh figures that update by changing their data, never by re-rendering.
 
-A :class:`LivePlot` owns one bokeh figure with a named line per series, dashed rating or
-target lines, a hover readout with units and a legend that reads in print. Points whose
-regime is not the normal one for the curve are drawn dotted over the solid line, so the
-regime can be read along the curve; the hover names the regime of every point.
+A :class:`LivePlot` owns one bokeh figure with a named line per series (each with its own
+colour and dash pattern, so lines that coincide can still be told apart in print), dashed
+rating or target lines labelled at the right edge and always inside the plotted range, a
+hover readout with units, and a legend beside the plot where it hides no curve. Points whose
+regime is not the normal one for the curve are overdrawn dotted, so the regime can be read
+along the curve; the hover names the regime of every point.
 
 Figures reach the notebook through :class:`jupyter_bokeh.BokehModel`, which uses the
-BokehJS bundled with the installed packages (no CDN).
+BokehJS that :func:`workbook.ui.panel.load_bokehjs` put into the page from the installed
+bokeh package (no CDN).
 """
 
 from __future__ import annotations
@@ -18,7 +21,8 @@ import numpy as np
 
 #: Okabe-Ito colour-blind-safe palette (Okabe and Ito, 2008), one entry per series
 PALETTE = ("#0072B2", "#D55E00", "#009E73", "#CC79A7", "#E69F00", "#56B4E9", "#000000")
-DASHES = ("solid", "solid", "solid", "solid", "solid", "solid", "solid")
+#: one dash pattern per series (dotted is kept for "not the normal regime")
+DASHES = ("solid", [10, 4], [14, 4, 3, 4], [6, 3], [18, 5], [3, 3, 12, 3], [8, 2, 2, 2, 2, 2])
 LIMIT_COLOUR = "#8a0010"
 
 
@@ -36,13 +40,13 @@ class LivePlot:
     limits : sequence of str
         Names of horizontal limit lines (ratings, targets).
     normal_regime : str or None
-        Regime label drawn solid; other regimes are overdrawn dotted.
+        Regime label drawn plain; other regimes are overdrawn dotted.
     """
 
     def __init__(self, title: str, x_label: str, x_unit: str, y_label: str, y_unit: str,
                  series: Sequence[str], limits: Sequence[str] = (), normal_regime: str | None = None,
-                 width: int = 620, height: int = 330):
-        from bokeh.models import ColumnDataSource, HoverTool, Legend, Span, Label
+                 width: int = 860, height: int = 340):
+        from bokeh.models import ColumnDataSource, HoverTool, Label, Legend, Span
         from bokeh.plotting import figure
 
         self.series = tuple(series)
@@ -50,36 +54,46 @@ class LivePlot:
         self.normal_regime = normal_regime
         fig = figure(title=title, width=width, height=height, tools="pan,box_zoom,wheel_zoom,reset,save",
                      x_axis_label=f"{x_label} [{x_unit}]", y_axis_label=f"{y_label} [{y_unit}]",
-                     toolbar_location="right")
+                     toolbar_location="above")
         fig.title.text_font_size = "12pt"
         self.sources = {}
-        self.alt_sources = {}
         items = []
+        hover_renderers = []
         for i, name in enumerate(self.series):
             colour = PALETTE[i % len(PALETTE)]
             src = ColumnDataSource({"x": [], "y": [], "y_alt": [], "regime": []})
-            line = fig.line("x", "y", source=src, line_width=2.5, color=colour)
-            alt = fig.line("x", "y_alt", source=src, line_width=5, color=colour, line_dash="dotted", alpha=0.9)
+            line = fig.line("x", "y", source=src, line_width=2.5, color=colour, line_dash=DASHES[i % len(DASHES)])
+            fig.line("x", "y_alt", source=src, line_width=5, color=colour, line_dash="dotted", alpha=0.9)
             self.sources[name] = src
-            items.append((name, [line, alt]))
+            items.append((name, [line]))
+            hover_renderers.append(line)
+        # the limits as invisible points, so the automatic range always includes them
+        self.limit_source = ColumnDataSource({"x": [], "y": []})
+        fig.scatter("x", "y", source=self.limit_source, alpha=0.0, size=1)
         self.limit_spans = {}
         self.limit_labels = {}
         for name in self.limit_names:
             span = Span(location=0, dimension="width", line_color=LIMIT_COLOUR, line_dash="dashed",
                         line_width=1.5, visible=False)
             fig.add_layout(span)
-            label = Label(x=5, y=0, x_units="screen", text=name, text_font_size="9pt",
-                          text_color=LIMIT_COLOUR, visible=False)
+            label = Label(x=0, y=0, text=name, text_font_size="9pt", text_color=LIMIT_COLOUR,
+                          text_align="right", text_baseline="bottom", visible=False,
+                          background_fill_color="white", background_fill_alpha=0.7)
             fig.add_layout(label)
             self.limit_spans[name] = span
             self.limit_labels[name] = label
-        fig.add_layout(Legend(items=items, location="top_left", click_policy="hide",
-                              label_text_font_size="10pt", background_fill_alpha=0.85))
-        fig.add_tools(HoverTool(tooltips=[
+        legend = Legend(items=items, click_policy="hide", label_text_font_size="10pt",
+                        title="dotted: not simply metering" if normal_regime else None,
+                        title_text_font_size="9pt", title_text_font_style="italic")
+        fig.add_layout(legend, "right")
+        fig.add_tools(HoverTool(renderers=hover_renderers, tooltips=[
+            ("series", "$name"),
             (x_label, f"@x{{0.[000]}} {x_unit}"),
             (y_label, f"@y{{0.[000]}} {y_unit}"),
             ("regime", "@regime"),
         ], mode="mouse"))
+        for name, line in zip(self.series, hover_renderers):
+            line.name = name
         self.figure = fig
         self._widget = None
 
@@ -93,9 +107,19 @@ class LivePlot:
             self._widget.add_class("wb-plot")
         return self._widget
 
+    def set_title(self, title: str) -> None:
+        """Change the title (only when it changed: every change travels to the page)."""
+        if self.figure.title.text != title:
+            self.figure.title.text = title
+
     def update(self, x, ys: Mapping[str, np.ndarray], regimes: Mapping[str, Sequence[str]] | None = None,
-               limits: Mapping[str, float] | None = None, xs: Mapping[str, np.ndarray] | None = None) -> None:
+               limits: Mapping[str, float] | None = None, xs: Mapping[str, np.ndarray] | None = None,
+               title: str | None = None) -> None:
         """Replace the data of every series (and the limit lines) in place."""
+        if title is not None:
+            self.set_title(title)
+        x_hi = -math.inf
+        x_lo = math.inf
         for name in self.series:
             src = self.sources[name]
             if name not in ys:
@@ -103,6 +127,9 @@ class LivePlot:
                 continue
             xx = np.asarray(xs[name] if xs and name in xs else x, dtype=float)
             y = np.asarray(ys[name], dtype=float)
+            if xx.size and np.isfinite(xx).any():
+                x_hi = max(x_hi, float(np.nanmax(xx)))
+                x_lo = min(x_lo, float(np.nanmin(xx)))
             reg = list(regimes[name]) if regimes and name in regimes else [""] * len(y)
             alt = np.full_like(y, np.nan)
             if self.normal_regime is not None and regimes and name in regimes:
@@ -114,15 +141,20 @@ class LivePlot:
                 alt = np.where(grow, y, np.nan)
             # numpy arrays travel to the browser as binary buffers, far cheaper than lists
             src.data = {"x": xx, "y": _clean(y), "y_alt": _clean(alt), "regime": reg}
-        for name, value in (limits or {}).items():
-            if name in self.limit_spans and value is not None and math.isfinite(value):
-                span, label = self.limit_spans[name], self.limit_labels[name]
-                if span.location != float(value) or not span.visible:  # only what changed is sent
-                    span.location = float(value)
-                    span.visible = True
-                    label.y = float(value)
-                    label.y_units = "data"
-                    label.visible = True
+        shown = {k: float(v) for k, v in (limits or {}).items()
+                 if k in self.limit_spans and v is not None and math.isfinite(v)}
+        if shown and math.isfinite(x_hi):
+            values = list(shown.values())
+            self.limit_source.data = {"x": np.full(len(values), x_lo), "y": np.array(values)}
+        for name, value in shown.items():
+            span, label = self.limit_spans[name], self.limit_labels[name]
+            if span.location != value or not span.visible:  # only what changed is sent
+                span.location = value
+                span.visible = True
+                label.y = value
+                label.visible = True
+            if math.isfinite(x_hi) and label.x != x_hi:
+                label.x = x_hi
 
     def data(self, name: str) -> dict:
         """The current data of one series as lists (for tests and benchmarks)."""
@@ -134,4 +166,4 @@ def _clean(values: np.ndarray) -> np.ndarray:
     return np.where(np.isfinite(values), values, np.nan).astype(float)
 
 
-__all__ = ["LivePlot", "PALETTE"]
+__all__ = ["LivePlot", "PALETTE", "DASHES"]

@@ -53,11 +53,11 @@ def results_html(results: Mapping[str, Mapping], title: str = "Results") -> str:
     rows = "".join(
         f"<tr><td>{html.escape(str(r.get('label', key)))}</td>"
         f"<td style='text-align:right;font-family:monospace'>{html.escape(number(r.get('value')))}</td>"
-        f"<td>{html.escape(str(r.get('unit', '')))}</td></tr>"
+        f"<td style='padding-left:0.5em'>{html.escape(str(r.get('unit', '')))}</td></tr>"
         for key, r in results.items()
     )
     return (f"<div class='wb-results'><b>{html.escape(title)}</b>"
-            "<table style='border-collapse:collapse;min-width:28em'>"
+            "<table style='border-collapse:collapse;min-width:36em'>"
             "<tr><th style='text-align:left'>Quantity</th><th>Value</th><th>Unit</th></tr>"
             f"{rows}</table></div>")
 
@@ -76,16 +76,18 @@ def findings_html(findings: Iterable[Mapping], title: str = "Checks") -> str:
         rows.append(
             f"<tr class='wb-finding wb-level-{lvl}'>"
             f"<td style='{LEVEL_STYLE.get(lvl, '')};white-space:nowrap'>{LEVEL_MARK.get(lvl, lvl)}</td>"
-            f"<td><code>{html.escape(str(f.get('rule_id', '')))}</code></td>"
+            f"<td style='white-space:nowrap'><code>{html.escape(str(f.get('rule_id', '')))}</code></td>"
             f"<td>{html.escape(str(f.get('statement', '')))}"
             + (f"<br><span style='color:#555'>{html.escape(str(f['detail']))}</span>" if f.get("detail") else "")
             + "</td>"
-            f"<td style='text-align:right;font-family:monospace'>{html.escape(number(f.get('value')))} {unit}</td>"
-            f"<td style='text-align:right;font-family:monospace'>{html.escape(number(f.get('limit')))} {unit}</td>"
-            f"<td style='text-align:right'>{margin_text}</td>"
+            f"<td style='text-align:right;font-family:monospace;white-space:nowrap'>"
+            f"{html.escape(number(f.get('value')))} {unit}</td>"
+            f"<td style='text-align:right;font-family:monospace;white-space:nowrap'>"
+            f"{html.escape(number(f.get('limit')))} {unit}</td>"
+            f"<td style='text-align:right;white-space:nowrap'>{margin_text}</td>"
             f"<td style='color:#444'>{html.escape(str(f.get('source', '')))}</td></tr>"
         )
-    return (f"<div class='wb-findings'>{head}<table style='border-collapse:collapse'>"
+    return (f"<div class='wb-findings'>{head}<table style='border-collapse:collapse;width:100%'>"
             "<tr><th>Level</th><th>Rule</th><th style='text-align:left'>Check</th><th>Value</th>"
             "<th>Limit</th><th>Margin</th><th style='text-align:left'>Source</th></tr>"
             + "".join(rows) + "</table></div>")
