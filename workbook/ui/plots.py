@@ -77,8 +77,7 @@ class LivePlot:
                         line_width=1.5, visible=False)
             fig.add_layout(span)
             label = Label(x=0, y=0, text=name, text_font_size="9pt", text_color=LIMIT_COLOUR,
-                          text_align="right", text_baseline="bottom", visible=False,
-                          background_fill_color="white", background_fill_alpha=0.7)
+                          text_align="right", text_baseline="bottom", visible=False)
             fig.add_layout(label)
             self.limit_spans[name] = span
             self.limit_labels[name] = label
