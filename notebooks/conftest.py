@@ -7,4 +7,6 @@ change what the regression run compares, and the run must not write into the rep
 import os
 import tempfile
 
-os.environ.setdefault("WORKBOOK_RECORDS_DIR", tempfile.mkdtemp(prefix="wb-nbval-records-"))
+# always a fresh folder (not setdefault): a records folder set by the caller may hold records
+# that would reopen the studies with other values than the committed outputs
+os.environ["WORKBOOK_RECORDS_DIR"] = tempfile.mkdtemp(prefix="wb-nbval-records-")

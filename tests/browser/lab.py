@@ -219,6 +219,9 @@ def start_lab_server(base_dir: str | os.PathLike | None = None) -> LabServer:
     token = secrets.token_hex(24)
 
     env = dict(os.environ)
+    # records go where a user's would (beside the notebook), not into a folder another part
+    # of the test run (nbval's notebooks/conftest.py) chose for its own kernels
+    env.pop("WORKBOOK_RECORDS_DIR", None)
     env.update(
         JUPYTER_CONFIG_DIR=str(dirs["config"]),
         JUPYTER_RUNTIME_DIR=str(dirs["runtime"]),
