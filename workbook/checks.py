@@ -244,6 +244,29 @@ def _stall(ctx):
     return float(bad.mean()), 0.0, where
 
 
+def _buckling(ctx):
+    """Highest rod compression (p1 A1 - p3 A3 > 0 pushes the rod out against the load)
+    against the Euler load of the rod over its free length, divided by the safety factor."""
+    c = ctx.axis.cylinder
+    val, where = ctx.worst(lambda s: np.maximum(c.force(s.p1, s.p3), 0.0))
+    f_euler = c.euler_buckling_load(length=c.free_length)
+    k = ctx.limits["buckling_factor"]
+    return val, f_euler / k, (f"highest rod compression at: {where}; Euler load {f_euler / 1e3:.4g} kN "
+                              f"({c.mounting}, free length {c.free_length * 1e3:g} mm, E 210 GPa) / {k:g}")
+
+
+def _buckling_stall(ctx):
+    """The force the cylinder develops stalled against a stop (relief full-flow pressure on the
+    piston, rod side at tank pressure) against the same Euler limit."""
+    a = ctx.axis
+    c = a.cylinder
+    force = a.supply.relief.full_flow * c.a1 - a.tank_pressure * c.a3
+    f_euler = c.euler_buckling_load(length=c.free_length)
+    k = ctx.limits["buckling_factor"]
+    return force, f_euler / k, (f"relief full-flow pressure {a.supply.relief.full_flow / _BAR:g} bar on the "
+                                f"piston; matters if the rod can be driven against a stop or an obstacle")
+
+
 #: every rule, in the order the record lists them
 RULES: tuple[Rule, ...] = (
     _pressure_rule("P-CAP-RATING", "cap chamber pressure", lambda s: s.p1, lambda a: a.cylinder.rated_pressure,
@@ -272,6 +295,13 @@ RULES: tuple[Rule, ...] = (
     Rule("H-RATING", "The holding valve setting stays within the cylinder, hose and valve ratings.",
          "holding valve setting", "pressure", "max", "user's data sheet", _hold_rating,
          margin_key="pressure_margin"),
+    Rule("ROD-BUCKLING", "The highest rod compression stays below the Euler buckling load divided by the "
+         "safety factor.", "rod compression", "force", "max",
+         "Euler buckling (pi^2 E I / (K L)^2); safety factor common practice (from memory)", _buckling),
+    Rule("ROD-BUCKLING-STALL", "Stalled against a stop at the relief pressure, the rod stays below the Euler "
+         "buckling load divided by the safety factor.", "rod force at relief pressure", "force", "max",
+         "Euler buckling (pi^2 E I / (K L)^2); safety factor common practice (from memory)", _buckling_stall,
+         broken="caution"),
     Rule("HEAT-SHARE", "Throttling heat stays within the allowed share of the installed drive power.",
          "throttling heat", "power", "max", "common practice", _heat, broken="caution"),
     Rule("DRIVE-POWER", "The pump never needs more shaft power than the installed drive.",

@@ -84,10 +84,16 @@ class Cylinder:
     rod: float
     stroke: float = 1.0
     rated_pressure: float = 210e5
+    mounting: str = "pinned-pinned"
+    buckling_length: float | None = None
 
     def __post_init__(self):
         for name in ("bore", "rod", "stroke", "rated_pressure"):
             object.__setattr__(self, name, _positive(name, getattr(self, name)))
+        if self.mounting not in EULER_LENGTH_FACTOR:
+            raise InputError("mounting", repr(self.mounting), "one of " + ", ".join(EULER_LENGTH_FACTOR))
+        if self.buckling_length is not None:
+            object.__setattr__(self, "buckling_length", _positive("buckling_length", self.buckling_length))
         if not self.rod < self.bore:
             raise InputError("rod", f"{self.rod * 1e3:g} mm",
                              f"a rod diameter smaller than the bore ({self.bore * 1e3:g} mm)")
@@ -95,7 +101,8 @@ class Cylinder:
     @classmethod
     def from_values(cls, values) -> "Cylinder":
         """From the parsed ``cylinder`` section of :mod:`workbook.inputs`."""
-        return cls(values["bore"], values["rod"], values["stroke"], values["rated_pressure"])
+        return cls(values["bore"], values["rod"], values["stroke"], values["rated_pressure"],
+                   values.get("mounting", "pinned-pinned"), values.get("buckling_length"))
 
     @property
     def a1(self) -> float:
@@ -145,23 +152,31 @@ class Cylinder:
         """Retracting speed, m/s, for a flow into the rod chamber, m³/s: ``v = Q / A3``."""
         return _out(np.asarray(q_in) / self.a3)
 
-    def euler_buckling_load(self, youngs_modulus: float = 2.1e11, mounting: str = "pinned-pinned",
+    def euler_buckling_load(self, youngs_modulus: float = 2.1e11, mounting: str | None = None,
                             length: float | None = None) -> float:
         """Euler critical load of the rod, N: ``F_k = pi² E I / (K L)²``, ``I = pi d⁴/64``.
 
-        ``length`` defaults to the stroke; ``mounting`` sets the effective-length factor K
-        (:data:`EULER_LENGTH_FACTOR`). Apply a safety factor (3.5 is common practice).
+        ``length`` defaults to the stroke; ``mounting`` (default: the cylinder's own) sets the
+        effective-length factor K (:data:`EULER_LENGTH_FACTOR`). Apply a safety factor (3.5 is
+        common practice, from memory). The rod alone is taken to carry the bending (the tube is
+        stiffer): a conservative simplification. E = 2.1e11 Pa for steel (common practice).
 
         # I = pi 0.045**4/64 = 2.013e-7 m4; F = pi**2 2.1e11 I / 0.6**2
         >>> round(Cylinder(0.08, 0.045, 0.6).euler_buckling_load() / 1e3)
         1159
         """
+        mounting = self.mounting if mounting is None else mounting
         if mounting not in EULER_LENGTH_FACTOR:
             raise InputError("mounting", repr(mounting), "one of " + ", ".join(EULER_LENGTH_FACTOR))
         length = self.stroke if length is None else _positive("length", length)
         inertia = math.pi * self.rod ** 4 / 64.0
         k = EULER_LENGTH_FACTOR[mounting]
         return math.pi ** 2 * youngs_modulus * inertia / (k * length) ** 2
+
+    @property
+    def free_length(self) -> float:
+        """Buckling length of the extended cylinder, m: the given one, else twice the stroke."""
+        return self.buckling_length if self.buckling_length is not None else 2.0 * self.stroke
 
     def natural_frequency(self, bulk_modulus: float, mass: float, position: float,
                           dead_volume_cap: float = 0.0, dead_volume_rod: float = 0.0):

@@ -49,6 +49,12 @@ CYLINDER = Section(
         Field("rated_pressure", "Cylinder rated pressure", "pressure", "bar", 210, low=0, low_open=True,
               high=2000, help="maximum working pressure of the cylinder from its data sheet",
               source="user's data sheet"),
+        Field("mounting", "Mounting (Euler case)", "choice", default="pinned-pinned",
+              choices=("pinned-pinned", "fixed-pinned", "fixed-fixed", "fixed-free"),
+              help="end fixing of the extended cylinder for the buckling check", source="common practice"),
+        Field("buckling_length", "Buckling length", "length", "mm", None, low=0, low_open=True, high=50000,
+              optional=True, help="pin-to-pin length of the extended cylinder (empty: twice the stroke)",
+              source="common practice (from memory: about twice the stroke when nothing better is known)"),
     ),
 )
 
@@ -207,6 +213,8 @@ LIMITS = Section(
               help="caution when a pressure is within this share of its rating", source="common practice"),
         Field("cavitation_abs", "Lowest absolute chamber pressure", "pressure", "bar", 0.3, low=0, high=1,
               help="absolute pressure below which a chamber is taken as cavitating", source="from memory"),
+        Field("buckling_factor", "Buckling safety factor", "dimensionless", "", 3.5, low=1.0, high=10,
+              help="Euler critical load over the highest rod compression", source="common practice (from memory)"),
         Field("heat_share", "Throttling heat share", "dimensionless", "%", 30, low=0, high=100,
               help="caution when valve and relief losses exceed this share of drive power",
               source="common practice"),

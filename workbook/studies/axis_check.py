@@ -21,12 +21,12 @@ PURPOSE = "Every design rule on the axis as designed, over its load cases, tempe
 NORMAL_REGIME = None
 
 FIELDS = AXIS_FIELDS + FLOW_VALVE_FIELDS + HOLDING_FIELDS + (
-    ("cylinder", "stroke"),
-    ("operation", "mass"),
+    ("cylinder", "stroke"), ("cylinder", "mounting"), ("cylinder", "buckling_length"),
+    ("operation", "mass"), ("oil", "bulk_modulus"),
     ("ratings", "hose_rating"), ("ratings", "valve_rating"), ("ratings", "pressure_line_bore"),
     ("ratings", "return_line_bore"), ("ratings", "suction_line_bore"),
     ("limits", "counterbalance_factor"), ("limits", "pressure_margin"), ("limits", "cavitation_abs"),
-    ("limits", "heat_share"), ("limits", "v_suction"), ("limits", "v_return"), ("limits", "v_pressure"),
+    ("limits", "buckling_factor"), ("limits", "heat_share"), ("limits", "v_suction"), ("limits", "v_return"), ("limits", "v_pressure"),
 )
 
 #: the inputs the panel keeps in view (the rest fold away by section)
@@ -62,6 +62,16 @@ def run(values) -> Outcome:
         "p_rod_max": result("Highest rod pressure, moving", float(np.max(sol.p3)), "pressure", "bar"),
         "heat_max": result("Highest throttling heat, moving", float(np.max(sol.loss_total)), "power", "kW"),
     }
+    c = axis.cylinder
+    if axis.mass > 0:
+        x = np.linspace(0.02, 0.98, 97) * c.stroke
+        w = c.natural_frequency(axis.oil.bulk_modulus, axis.mass, x)
+        res["natural_frequency"] = result("Lowest hydraulic natural frequency over the stroke "
+                                          "(no dead volume: an upper estimate; Merritt)",
+                                          float(np.min(w)) / (2 * np.pi), "dimensionless", "Hz")
+    res["euler_load"] = result(f"Euler buckling load of the rod ({c.mounting}, free length "
+                               f"{c.free_length * 1e3:g} mm)", c.euler_buckling_load(length=c.free_length),
+                               "force", "kN")
     if closed is not None:
         res["p_cap_closed"] = result("Highest cap pressure, flow valve closed", float(np.max(closed.p1)),
                                      "pressure", "bar")
