@@ -345,3 +345,16 @@ def test_throttle_speed_follows_viscosity_orifice_barely():
     ori = solve(axis(RestrictorValve(SharpOrifice(1.2e-3)), controlled="retract"), 6e3, temps)
     assert thr.speed[1] / thr.speed[0] > 1.8
     assert abs(ori.speed[1] / ori.speed[0] - 1) < 0.05
+
+
+def test_inclination_adds_the_weight_along_the_rod():
+    """Statics: a mass m on a rod inclined at angle a above horizontal (rod end up) pushes the
+    rod in with m g sin(a); g = 9.80665 m/s² (standard gravity, NIST SP 811). Vertical:
+    800 kg -> 7845.3 N added to every load case; horizontal: nothing added."""
+    v = values(operation={"loads": [1000.0, 2000.0], "mass": 800.0, "inclination": math.pi / 2})
+    ax = axis_from_values(v)
+    assert ax.loads == pytest.approx((1000.0 + 800 * 9.80665, 2000.0 + 800 * 9.80665))
+    v = values(operation={"loads": [1000.0], "mass": 800.0, "inclination": 0.0})
+    assert axis_from_values(v).loads == pytest.approx((1000.0,))
+    v = values(operation={"loads": [0.0], "mass": 800.0, "inclination": -math.pi / 6})   # rod end down
+    assert axis_from_values(v).loads == pytest.approx((-0.5 * 800 * 9.80665,))

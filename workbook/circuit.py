@@ -753,6 +753,26 @@ def _flow_valve_from_values(fv: Mapping, oil: Oil):
     raise InputError("flow_valve.kind", repr(kind), "one of 'orifice', 'throttle', 'needle', 'compensated'")
 
 
+#: standard acceleration of gravity, m/s² (CGPM 1901; NIST SP 811)
+G_STANDARD = 9.80665
+
+
+def design_loads(operation: Mapping) -> np.ndarray:
+    """The load cases of the ``operation`` section with the moving mass's weight along the rod.
+
+    ``F_i = F_case,i + m g sin(inclination)`` (N): an inclination above horizontal with the
+    rod end up makes the weight push the rod in (positive, the workbook's sign); 0 leaves the
+    load cases as given.
+
+    >>> design_loads({"loads": [1000.0], "mass": 100.0, "inclination": math.pi / 2}).round(3).tolist()
+    [1980.665]
+    """
+    loads = np.asarray(operation["loads"], dtype=float)
+    angle = float(operation.get("inclination") or 0.0)
+    mass = float(operation.get("mass") or 0.0)
+    return loads + mass * G_STANDARD * math.sin(angle)
+
+
 def axis_from_values(values: Mapping[str, Mapping]) -> Axis:
     """An :class:`Axis` from parsed sections (``{section_key: dict}``, SI values as
     produced by ``workbook.inputs.<SECTION>.parse``): cylinder, oil, supply, flow_valve,
@@ -810,12 +830,12 @@ def axis_from_values(values: Mapping[str, Mapping]) -> Axis:
     cav = values.get("limits", {}).get("cavitation_abs", CAVITATION_ABS_DEFAULT)
     return Axis(cylinder=cylinder, oil=oil, supply=supply, flow_valve=valve, arrangement=fv["arrangement"],
                 controlled=fv["direction"], holding=holding, holding_side=hold.get("side", "cap"),
-                friction=op["friction"], tank_pressure=op["tank_pressure"], loads=tuple(op["loads"]),
+                friction=op["friction"], tank_pressure=op["tank_pressure"], loads=tuple(design_loads(op)),
                 temp_min=op["temp_min"], temp_max=op["temp_max"], target_speed=op.get("target_speed"),
                 speed_tolerance=op.get("speed_tolerance", 0.15), mass=op.get("mass", 0.0), ratings=ratings,
                 cavitation_abs=cav)
 
 
-__all__ = ["Axis", "Ratings", "Solution", "solve", "axis_from_values", "solve_increasing", "REGIMES",
+__all__ = ["Axis", "Ratings", "Solution", "solve", "axis_from_values", "design_loads", "G_STANDARD", "solve_increasing", "REGIMES",
            "ARRANGEMENTS", "DIRECTIONS", "METERING", "STARVED", "PUMP_LIMITED", "RELIEF", "STALLED", "HELD",
            "CLOSED", "RUNAWAY", "CAVITATING", "CAVITATION_ABS_DEFAULT"]

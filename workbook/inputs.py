@@ -182,7 +182,12 @@ OPERATION = Section(
         Field("speed_tolerance", "Speed tolerance", "dimensionless", "%", 15, low=0, high=100,
               help="allowed speed deviation over loads and temperatures", source="demo scenario"),
         Field("mass", "Moving mass", "mass", "kg", 800, low=0, high=1e7,
-              help="load and rod mass (for natural frequency)", source="demo scenario"),
+              help="load and rod mass (for natural frequency and, with an inclination, its weight)",
+              source="demo scenario"),
+        Field("inclination", "Rod inclination", "angle", "deg", 0, low=-90, high=90,
+              help="rod axis above horizontal, rod end up: the moving mass's weight m g sin(angle) is added "
+                   "to every load case (0 when the load cases already include the weight)",
+              source="demo scenario"),
     ),
 )
 

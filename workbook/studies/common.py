@@ -5,7 +5,7 @@ from __future__ import annotations
 import numpy as np
 
 from .. import inputs
-from ..circuit import Axis, axis_from_values
+from ..circuit import Axis, axis_from_values, design_loads
 from ..errors import InputError
 
 #: the inputs that describe an axis for the solver (each study adds its own)
@@ -39,11 +39,12 @@ def build_axis(values) -> Axis:
 def sweep_range(values) -> tuple[float, float]:
     """``(lowest, highest)`` load of the curves, N.
 
-    ``study.load_min`` / ``study.load_max`` when given; otherwise the load cases' range
-    widened by a quarter of its span on each side (at least 1 kN wide).
+    ``study.load_min`` / ``study.load_max`` when given; otherwise the load cases' range (with
+    the weight along the rod, :func:`~workbook.circuit.design_loads`) widened by a quarter of
+    its span on each side (at least 1 kN wide).
     """
     st = values["study"]
-    cases = np.asarray(values["operation"]["loads"], dtype=float)
+    cases = design_loads(values["operation"])
     span = max(float(cases.max() - cases.min()), 1e3)
     lo = st.get("load_min")
     hi = st.get("load_max")

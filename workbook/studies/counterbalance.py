@@ -62,7 +62,7 @@ def run(values) -> Outcome:
     lower = lowering_direction(side)
     c = base.cylinder
     a_hold = c.a1 if side == "cap" else c.a3
-    cases = np.asarray(op["loads"], dtype=float)
+    cases = np.asarray(base.loads, dtype=float)
     p_load = np.asarray(base.holding_pressure(cases))
     p_load_max = float(p_load.max())
     if p_load_max <= 0:

@@ -22,7 +22,7 @@ import math
 
 import numpy as np
 
-from ..circuit import METERING, solve
+from ..circuit import METERING, design_loads, solve
 from ..cylinder import ISO3320_RODS_MM
 from .base import Outcome, curve, finding, grade, result
 from .common import AXIS_FIELDS, FLOW_VALVE_FIELDS, HOLDING_FIELDS, build_axis, regime_list, sweep
@@ -87,7 +87,7 @@ def largest_safe_rod(axis, p_supply: float, pull: float, rating: float) -> float
 
 
 def run(values) -> Outcome:
-    axis, loads, solved = cases(values, values["operation"]["loads"])   # the design's load cases
+    axis, loads, solved = cases(values, design_loads(values["operation"]))   # the design's load cases
     _, sweep_loads, curves = cases(values)                              # the curves
     rt = values["ratings"]
     margin_share = values["limits"]["pressure_margin"]

@@ -85,7 +85,7 @@ def candidates(values):
         raise InputError("operation.target_speed", f"{v_target * 1e3:g} mm/s",
                          f"a speed the pump ({base.supply.flow * 6e4:.4g} L/min) can fill, at most "
                          f"{base.supply.flow / a_drive * 1e3:.4g} mm/s")
-    loads = np.asarray(op["loads"], dtype=float)
+    loads = np.asarray(base.loads, dtype=float)
     f_ref = float(np.median(loads))
     check = CheckValve(fv["check_cracking"])
     comp = CompensatedFlowValve.from_setting(q_valve, float(base.oil.density(313.15)), cd=fv["cd"],
@@ -131,7 +131,7 @@ def run(values) -> Outcome:
     op, st = values["operation"], values["study"]
     t = st["design_temp"]
     loads = sweep(values)
-    cases = np.asarray(op["loads"], dtype=float)
+    cases = np.asarray(axes["orifice"].loads, dtype=float)
     temps = np.array([op["temp_min"], op["temp_max"]])
     v_target = op["target_speed"]
     tol = op["speed_tolerance"]
