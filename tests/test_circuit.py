@@ -189,7 +189,7 @@ def test_counterbalance_not_opening_holds_the_load():
 
 
 def test_back_pressure_valve_sets_counter_pressure():
-    # design brief §4: back-pressure valve in series holds the annulus at its setting + g q
+    # common practice: a back-pressure valve in series holds the annulus at its setting + g q
     g = 0.5 * BAR / LPM
     bp = BackPressureValve(30e5, g)
     ax = axis(comp(), arrangement="meter-in", controlled="extend", holding=bp, side="rod", tank=2e5)
@@ -297,7 +297,7 @@ def values(**over):
 
 
 def test_axis_from_default_values():
-    # demo scenario: the bin tipper's lift axis, lowering under a counterbalance
+    # catalogue defaults (meter-out lowering under a cap-side counterbalance): every load case moves
     ax = axis_from_values(values())
     assert ax.arrangement == "meter-out" and isinstance(ax.holding, CounterbalanceValve)
     s = solve(ax, np.array(ax.loads), ax.temp_min)
@@ -305,22 +305,22 @@ def test_axis_from_default_values():
 
 
 @pytest.mark.parametrize("over,field", [
-    ({"cylinder": {"rod": 0.08}}, "rod"),
+    ({"cylinder": {"rod": 0.08}}, "cylinder.rod"),
     # meter-out retracting passes cap oil: the pump (21.6 L/min) drives at most 21.6 x A1/A3 = 31.6 L/min
     ({"flow_valve": {"setting": 35 * LPM}}, "flow_valve.setting"),
     # meter-in passes pump oil: at most the pump flow
     ({"flow_valve": {"setting": 25 * LPM, "arrangement": "meter-in"}}, "flow_valve.setting"),
-    ({"holding": {"pilot_ratio": 0.0}}, "pilot_ratio"),
-    ({"supply": {"relief_full_flow": 150e5}}, "relief_full_flow"),
-    ({"operation": {"temp_min": 200.0}}, "temp_min"),
-    ({"operation": {"temp_max": 280.0}}, "temp_max"),
-    ({"flow_valve": {"min_drop": 3e5}}, "min_drop"),
+    ({"holding": {"pilot_ratio": 0.0}}, "holding.pilot_ratio"),
+    ({"supply": {"relief_full_flow": 150e5}}, "supply.relief_full_flow"),
+    ({"operation": {"temp_min": 200.0}}, "operation.temp_min"),
+    ({"operation": {"temp_max": 280.0}}, "operation.temp_max"),
+    ({"flow_valve": {"min_drop": 3e5}}, "flow_valve.min_drop"),
 ])
 def test_bad_cross_field_input(over, field):
     with pytest.raises(InputError) as e:
         axis_from_values(values(**over))
     assert e.value.field == field and e.value.allowed
-    if field == "rod":
+    if field == "cylinder.rod":
         assert e.value.allowed == "a rod diameter smaller than the bore (80 mm)"
 
 
@@ -337,7 +337,7 @@ def test_bad_solve_input(kw, field):
 
 
 def test_throttle_speed_follows_viscosity_orifice_barely():
-    # common practice (design brief §8): a long throttle's laminar flow follows viscosity, an
+    # common practice: a long throttle's laminar flow follows viscosity, an
     # orifice's barely; lowering the lift (meter-out, cap side) from 20 degC to 60 degC oil
     from workbook.restrictor import LongThrottle
     temps = np.array([293.15, 333.15])

@@ -262,3 +262,18 @@ def test_save_writes_what_load_reads_and_replaces_the_old_file(tmp_path):
     newer = _demo_record().with_note("after review")
     save(newer, path)
     assert load(path) == newer and load(path).notes == ["after review"]
+
+
+def test_the_json_exchange_form_carries_the_caution(tmp_path):
+    """Every exported record carries the safety caution (ISO 4413 and a qualified engineer),
+    the JSON exchange form included; one stripped of it is refused by the shipped schema."""
+    from workbook import CAUTION
+
+    path = save(_demo_record(), tmp_path / "r.json")
+    document = json.loads(path.read_text(encoding="utf-8"))
+    assert document["caution"] == CAUTION and "ISO 4413" in document["caution"]
+    del document["caution"]
+    document.pop("digest")
+    document["digest"] = store.digest(document)
+    with pytest.raises(RecordError, match="caution"):
+        loads(json.dumps(document), "stripped.json")

@@ -25,7 +25,7 @@ def test_fixed_pump_flow_is_constant_with_pressure():
 
 
 def test_relief_closed_below_cracking_and_full_flow_at_full_flow_pressure():
-    # definition of the override characteristic (design brief §4 Supply), checked by hand
+    # definition of a relief valve's override characteristic (common practice), checked by hand
     r = ReliefValve(160e5, 172e5, 20 * LPM)
     q = r.flow(np.array([0.0, 159.9e5, 160e5, 166e5, 172e5]))
     assert q[:3].tolist() == [0.0, 0.0, 0.0]

@@ -101,7 +101,7 @@ def test_cross_field_refusal_is_shown_at_the_field_not_raised(workdir):
     panel = open_study("rod-pressure", workdir / "designs" / "bin-tipper.toml", axis="tip")
     good = panel.summary()
     assert not panel.set("cylinder.rod", "70 mm")  # larger than the 63 mm bore
-    assert panel.stale and panel.error is not None and panel.error.field == "rod"
+    assert panel.stale and panel.error is not None and panel.error.field == "cylinder.rod"
     assert "smaller than the bore" in panel.controls[("cylinder", "rod")].message.value
     assert panel.summary().startswith(good)
     assert panel.set("cylinder.rod", "36 mm") and not panel.stale

@@ -30,7 +30,7 @@ def test_metering_area_from_orifice_equation():
 
 
 def test_compensated_flow_curve_continuous_and_droops_upwards():
-    # design brief §4: fixed orifice below dp_min (sqrt law), setting with droop above, continuous
+    # common practice: fixed orifice below dp_min (sqrt law), setting with droop above, continuous
     v = comp()
     eps = 1.0
     below, at, above = v.flow(np.array([8e5 - eps, 8e5, 8e5 + eps]), RHO)
@@ -90,7 +90,7 @@ def test_check_valve_quadratic_inverse(q):
 
 
 def test_counterbalance_opening_condition():
-    # design brief §4: closed until p_load + R p_pilot >= p_set; Q = (p_load + R p_pilot - p_set)/g
+    # force balance on the poppet (common practice): closed until p_load + R p_pilot >= p_set; Q = (p_load + R p_pilot - p_set)/g
     g = 0.5e5 / LPM
     cb = CounterbalanceValve(130e5, 3.0, g)
     assert float(cb.flow(40e5, 29.9e5)) == 0.0              # 40 + 89.7 < 130
@@ -103,7 +103,7 @@ def test_counterbalance_opening_condition():
 
 
 def test_back_pressure_valve_holds_upstream_at_setting():
-    # direct-acting relief in series: p_in = p_out + p_set + g q (design brief §4)
+    # direct-acting relief in series: p_in = p_out + p_set + g q (force balance on the poppet, common practice)
     bp = BackPressureValve(30e5, 1e5 / LPM)
     assert float(bp.inlet_pressure(np.array(0.0), 2e5)) == pytest.approx(32e5)
     assert float(bp.flow(42e5, 2e5)) == pytest.approx(10 * LPM)

@@ -773,7 +773,37 @@ def design_loads(operation: Mapping) -> np.ndarray:
     return loads + mass * G_STANDARD * math.sin(angle)
 
 
+#: bare field names raised by the physics -> the design field they come from
+_QUALIFIED = {
+    "rod": "cylinder.rod", "bore": "cylinder.bore", "stroke": "cylinder.stroke",
+    "rated_pressure": "cylinder.rated_pressure", "mounting": "cylinder.mounting",
+    "buckling_length": "cylinder.buckling_length",
+    "relief_full_flow": "supply.relief_full_flow", "relief_cracking": "supply.relief_cracking",
+    "volumetric_efficiency": "supply.volumetric_efficiency", "pump_flow": "supply.pump_flow",
+    "min_drop": "flow_valve.min_drop", "compensator_drop": "flow_valve.compensator_drop",
+    "droop": "flow_valve.droop", "cd": "flow_valve.cd", "diameter": "flow_valve.diameter",
+    "length": "flow_valve.length", "seat_diameter": "flow_valve.seat_diameter",
+    "half_angle": "flow_valve.half_angle", "pitch": "flow_valve.pitch", "arrangement": "flow_valve.arrangement",
+    "direction": "flow_valve.direction",
+    "pilot_ratio": "holding.pilot_ratio", "gradient": "holding.gradient", "side": "holding.side",
+    "friction": "operation.friction", "tank_pressure": "operation.tank_pressure", "loads": "operation.loads",
+    "temp_min": "operation.temp_min", "temp_max": "operation.temp_max",
+    "cavitation_abs": "limits.cavitation_abs",
+}
+
+
 def axis_from_values(values: Mapping[str, Mapping]) -> Axis:
+    """An :class:`Axis` from parsed sections; every refusal names its design field
+    (``section.key``), see :func:`_axis_from_values`."""
+    try:
+        return _axis_from_values(values)
+    except InputError as exc:
+        if "." in exc.field or exc.field not in _QUALIFIED:
+            raise
+        raise type(exc)(_QUALIFIED[exc.field], exc.given, exc.allowed) from None
+
+
+def _axis_from_values(values: Mapping[str, Mapping]) -> Axis:
     """An :class:`Axis` from parsed sections (``{section_key: dict}``, SI values as
     produced by ``workbook.inputs.<SECTION>.parse``): cylinder, oil, supply, flow_valve,
     holding, operation, ratings (and optionally limits for ``cavitation_abs``).
@@ -798,6 +828,9 @@ def axis_from_values(values: Mapping[str, Mapping]) -> Axis:
     cylinder = Cylinder.from_values(cy)
     oil = Oil.from_values(oil_v)
     supply = Supply.from_values(sup)
+    if fv.get("kind") == "needle" and not fv.get("turns", 1.0) > 0:
+        raise InputError("flow_valve.turns", "0 turn",
+                         "an opening above 0 turns (the valve-closed case is checked for every design anyway)")
     valve = _flow_valve_from_values(fv, oil)
     if isinstance(valve, CompensatedFlowValve):
         # the setting is reachable only if the pump can fill the driving chamber at the speed it sets:

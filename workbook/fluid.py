@@ -8,7 +8,8 @@ with ``nu`` in mm²/s (cSt) and ``T`` in kelvin, fitted through two datasheet po
 (40 °C and 100 °C). The constant 0.7 holds down to about 2 mm²/s (ASTM D341); below
 that the standard adds further terms, so this model refuses to extrapolate there.
 
-Density falls linearly with the volumetric expansion coefficient ``alpha``::
+Density falls with the volumetric expansion coefficient ``alpha`` (nearly linearly over the
+working range)::
 
     rho(T) = rho15 / (1 + alpha * (T - 288.15 K))
 

@@ -47,7 +47,7 @@ from typing import Any, Iterable, Mapping
 
 import numpy as np
 
-from .. import __version__
+from .. import CAUTION, __version__
 from ..errors import InputError
 from ..fields import Field
 from ..inputs import BY_KEY, IDENTITY, SECTIONS
@@ -545,6 +545,7 @@ class Record:
         return {
             "schema_version": self.schema_version,
             "library_version": self.library_version,
+            "caution": CAUTION,
             "identity": dict(self.identity),
             "studies": [{"key": k, **s.to_dict()} for k, s in self.studies.items()],
             "notes": list(self.notes),
@@ -553,6 +554,8 @@ class Record:
     @classmethod
     def from_dict(cls, data: Mapping) -> "Record":
         data = _mapping(data, "record", "a mapping")
+        if "caution" in data and not (isinstance(data["caution"], str) and data["caution"].strip()):
+            raise InputError("caution", repr(data["caution"]), "the safety caution as text")
         studies_in = data.get("studies", [])
         if isinstance(studies_in, Mapping):
             studies = dict(studies_in)

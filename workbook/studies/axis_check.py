@@ -58,9 +58,9 @@ def run(values) -> Outcome:
         "speed_max": result(f"Fastest {axis.controlled} speed over load cases and temperatures",
                             float(np.max(sol.speed)), "velocity", "mm/s"),
         "p_pump_max": result("Highest pump pressure", float(np.max(sol.p_pump)), "pressure", "bar"),
-        "p_cap_max": result("Highest cap pressure, moving", float(np.max(sol.p1)), "pressure", "bar"),
-        "p_rod_max": result("Highest rod pressure, moving", float(np.max(sol.p3)), "pressure", "bar"),
-        "heat_max": result("Highest throttling heat, moving", float(np.max(sol.loss_total)), "power", "kW"),
+        "p_cap_max": result("Highest cap pressure, controlled motion, valve open", float(np.max(sol.p1)), "pressure", "bar"),
+        "p_rod_max": result("Highest rod pressure, controlled motion, valve open", float(np.max(sol.p3)), "pressure", "bar"),
+        "heat_max": result("Highest throttling heat, controlled motion, valve open", float(np.max(sol.loss_total)), "power", "kW"),
     }
     c = axis.cylinder
     if axis.mass > 0:

@@ -72,7 +72,8 @@ def finding(rule_id: str, statement: str, quantity: str, value, limit, dimension
             return None
         v = float(v)
         if not math.isfinite(v):
-            return None
+            # a NaN or infinity here is a defect of the study, never something to hide as "–"
+            raise InputError(rule_id, "a value that is not finite", "a finite finding (report this as a defect)")
         if dimension == "dimensionless":
             return v * (100.0 if unit == "%" else 1.0)
         return float(units.from_si(v, dimension, unit))
@@ -80,7 +81,7 @@ def finding(rule_id: str, statement: str, quantity: str, value, limit, dimension
     return {
         "rule_id": rule_id, "statement": statement, "quantity": quantity,
         "value": conv(value), "limit": conv(limit), "unit": unit,
-        "margin": None if margin is None or not math.isfinite(margin) else float(margin),
+        "margin": None if margin is None else _finite_margin(rule_id, margin),
         "level": level, "source": source, "detail": detail,
     }
 
@@ -94,6 +95,13 @@ def as_alternative(item: dict, what: str) -> dict:
     note = f"{what} is an alternative, not the design's valve"
     out["detail"] = f"{out['detail']}; {note}" if out.get("detail") else note
     return out
+
+
+def _finite_margin(rule_id: str, margin) -> float:
+    m = float(margin)
+    if not math.isfinite(m):
+        raise InputError(rule_id, "a margin that is not finite", "a finite margin (report this as a defect)")
+    return m
 
 
 def sort_findings(items: Iterable[Mapping]) -> list[dict]:

@@ -11,7 +11,8 @@ opening (Q -> 0), with ``p_L = (F - F_fr)/A_hold`` and ``a = A_d/A_hold``::
 
     p_d = (p_set - p_L) / (R + a)          pilot pressure needed to lower
 
-A high ratio lowers with a small pilot pressure (less pump pressure, less heat); a low ratio
+Everything is solved at the cold end of the oil temperature range, where pressures and pilot
+pressures are highest. A high ratio lowers with a small pilot pressure (less pump pressure, less heat); a low ratio
 makes the valve less sensitive to pilot-pressure swings, steadier with an unstable load
 (common practice). A back-pressure valve in series needs no pilot but costs its whole
 setting times the flow as heat, all the time.
@@ -135,6 +136,19 @@ def run(values) -> Outcome:
             "counterbalance setting", setting, rvalue, "pressure", "bar", level,
             "user's data sheet rating; caution margin common practice", margin,
             detail="a closed counterbalance relieves thermal expansion at its setting"))
+    if base.valve_side() == side:
+        # the flow valve meters the same line downstream of the counterbalance
+        outlet = solve(dataclasses.replace(base, holding=CounterbalanceValve(setting, hold["pilot_ratio"],
+                                                                         hold["gradient"], check),
+                                           holding_side=side), cases, t_cold, direction=lower)
+        p_out = float(np.max(np.asarray(outlet.p_mid)))
+        findings.append(finding(
+            "CB-OUTLET", "No metering valve downstream raises the counterbalance's outlet pressure",
+            "highest counterbalance outlet pressure while lowering", p_out, base.tank_pressure, "pressure", "bar",
+            "caution", "common practice", None,
+            detail="the model takes the outlet pressure on the seat only; in a valve whose spring chamber drains "
+                   "to the outlet it also acts against the pilot, which changes when the valve opens: check the "
+                   "valve type on its data sheet, or meter in instead"))
     drive = values["supply"]["drive_power"]
     chosen = CounterbalanceValve(setting, hold["pilot_ratio"], hold["gradient"], check)
     chosen_sol = solve(dataclasses.replace(base, holding=chosen, holding_side=side), cases, t_cold, direction=lower)
@@ -159,12 +173,12 @@ def run(values) -> Outcome:
             "limits": {},
         },
         "pump_pressure_vs_load": {
-            "title": "Pump pressure while lowering", "x_label": "Load [kN]", "y_label": "Pump pressure [bar]",
+            "title": f"Pump pressure while lowering ({lower}), cold oil", "x_label": "Load [kN]", "y_label": "Pump pressure [bar]",
             "x": curve(loads / 1e3), "series": pump_series,
             "limits": {"relief cracking": base.supply.relief.cracking / 1e5},
         },
         "heat_vs_load": {
-            "title": "Heat in the holding valve while lowering", "x_label": "Load [kN]", "y_label": "Heat [kW]",
+            "title": f"Heat in the holding valve while lowering ({lower}), cold oil", "x_label": "Load [kN]", "y_label": "Heat [kW]",
             "x": curve(loads / 1e3), "series": heat_series,
             "limits": {"heat share of drive power": lim["heat_share"] * drive / 1e3},
         },

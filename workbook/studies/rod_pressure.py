@@ -36,6 +36,7 @@ NORMAL_REGIME = None
 FIELDS = AXIS_FIELDS + FLOW_VALVE_FIELDS + HOLDING_FIELDS + (
     ("cylinder", "stroke"),
     ("ratings", "hose_rating"), ("ratings", "valve_rating"), ("limits", "pressure_margin"),
+    ("limits", "buckling_factor"), ("cylinder", "mounting"), ("cylinder", "buckling_length"),
     ("study", "load_min"), ("study", "load_max"), ("study", "points"),
 )
 
@@ -86,6 +87,66 @@ def largest_safe_rod(axis, p_supply: float, pull: float, rating: float) -> float
     return fits[-1] if fits else None
 
 
+def _remedy(axis, loads, solved, lowest, lowest_name, margin_share, buckling_factor, res) -> dict:
+    """What would bring the rod side back inside the lowest rating, for the case that caused it.
+
+    * Lower the relief: with the meter-out valve closed, ``p3 = (p A1 - F)/A3``, so the
+      full-flow pressure must satisfy ``p <= (rating A3 + F_min)/A1`` (F_min: the most pulling
+      load case).
+    * A rod-side relief: only if the rod side stays below its setting while metering;
+      otherwise it would open in normal motion and the flow valve would lose the speed.
+    * A thinner rod (a smaller area ratio), checked for Euler buckling when stalled at the
+      relief pressure (the same rule as the axis check).
+    * Meter-in, where a closed valve leaves the rod side at tank pressure.
+    """
+    c = axis.cylinder
+    case = max(solved, key=lambda k: float(np.max(solved[k][1])))
+    p_rod_max = float(np.max(solved[case][1]))
+    moving_rod = max(float(np.max(v[1])) for k, v in solved.items() if "closed" not in k)
+    f_min = float(np.min(loads))
+    advice = []
+    closed_case = "closed" in case
+    relief_ok = (lowest * c.a3 + f_min) / c.a1
+    if relief_ok > axis.tank_pressure:
+        res["relief_for_rating"] = result("Relief full-flow pressure that keeps the rod side inside the lowest "
+                                          "rating", relief_ok, "pressure", "bar")
+        advice.append(f"lower the relief full-flow pressure to at most {relief_ok / 1e5:.0f} bar "
+                      f"(now {axis.supply.relief.full_flow / 1e5:.0f} bar)")
+    setting = lowest / (1 + margin_share)
+    if moving_rod < setting:
+        res["rod_relief_setting"] = result("Rod-side relief setting that would protect the lowest rating",
+                                           setting, "pressure", "bar")
+        advice.append(f"or a rod-side relief valve set at about {setting / 1e5:.0f} bar (below the {lowest_name}; "
+                      f"the rod side reaches {moving_rod / 1e5:.0f} bar while metering, so it stays shut then)")
+    else:
+        advice.append(f"a rod-side relief would not do: the rod side reaches {moving_rod / 1e5:.0f} bar while "
+                      "metering, so a relief below the rating would open in normal motion and take the speed "
+                      "from the flow valve")
+    if closed_case and axis.arrangement == "meter-out" and axis.controlled == "extend":
+        rod = largest_safe_rod(axis, axis.supply.relief.full_flow, max(-f_min, 0.0), lowest)
+        if rod is not None and rod < c.rod:
+            thin = dataclasses.replace(c, rod=rod)
+            euler = thin.euler_buckling_load(length=thin.free_length) / buckling_factor
+            stall = axis.supply.relief.full_flow * c.a1
+            res["largest_safe_rod"] = result("Largest ISO 3320 rod keeping the closed-valve pressure inside the "
+                                             "lowest rating", rod, "length", "mm")
+            words = "passes" if stall <= euler else "fails"
+            advice.append(f"or a thinner rod of {rod * 1e3:g} mm (area ratio {thin.phi:.2f}), which {words} "
+                          f"the buckling check stalled at relief pressure ({stall / 1e3:.0f} kN against "
+                          f"{euler / 1e3:.0f} kN)")
+    if axis.arrangement == "meter-out":
+        meter_in = dataclasses.replace(axis, arrangement="meter-in")
+        s = solve(meter_in, loads, axis.temp_min, opening=0.0)
+        p = float(np.max(np.asarray(s.p3)))
+        res["meter_in_closed_rod"] = result("Highest rod pressure with meter-in, valve closed", p, "pressure", "bar")
+        advice.append(f"or meter-in, where the closed valve leaves the rod side at {p / 1e5:.0f} bar "
+                      "(but meter-in needs a holding valve to hold an overrunning load)")
+    return finding(
+        "RP-REMEDY", "What to change: " + "; ".join(advice), "highest rod pressure", p_rod_max, lowest,
+        "pressure", "bar", "caution" if p_rod_max <= lowest else "fail", "force balance; common practice",
+        (lowest - p_rod_max) / lowest, detail=f"worst case: {case}")
+
+
 def run(values) -> Outcome:
     axis, loads, solved = cases(values, design_loads(values["operation"]))   # the design's load cases
     _, sweep_loads, curves = cases(values)                              # the curves
@@ -100,14 +161,11 @@ def run(values) -> Outcome:
     lowest = ratings[lowest_name]
     res = {"area_ratio": {"value": axis.cylinder.phi, "unit": "", "label": "Area ratio A1/A3"}}
     findings = []
-    worst_case = None
     for case, (p1, p3, regimes) in solved.items():
         for chamber, p in (("cap", p1), ("rod", p3)):
             i = int(np.argmax(p))
             key = f"{case.replace(', ', '_').replace(' ', '_')}_{chamber}"
             res[f"p_{key}"] = result(f"Highest {chamber} pressure, {case}", float(p[i]), "pressure", "bar")
-            if worst_case is None or p[i] > worst_case[0]:
-                worst_case = (float(p[i]), case, chamber, float(loads[i]))
     # one finding per chamber and rating, at the worst case
     for chamber in ("cap", "rod"):
         idx = 0 if chamber == "cap" else 1
@@ -121,32 +179,11 @@ def run(values) -> Outcome:
                 f"highest {chamber} pressure", value, rvalue, "pressure", "bar", level,
                 "user's data sheet rating; caution margin common practice", margin,
                 detail=f"worst case: {case} at {at_load / 1e3:.3g} kN"))
-    # what to change when the rod side fails
+    # what to change when the rod side fails: worked out for the case that caused it
     p_rod_max = max(float(np.max(v[1])) for v in solved.values())
     if p_rod_max > lowest * (1 - margin_share):
-        setting = lowest / (1 + margin_share)
-        res["rod_relief_setting"] = result("Rod-side relief setting that would protect the lowest rating",
-                                           setting, "pressure", "bar")
-        pull = max(-float(np.min(loads)), 0.0)
-        rod = largest_safe_rod(axis, axis.supply.relief.full_flow, pull, lowest)
-        advice = [f"add a rod-side relief valve set at about {setting / 1e5:.0f} bar "
-                  f"(below the {lowest_name})"]
-        if rod is not None and rod < axis.cylinder.rod:
-            res["largest_safe_rod"] = result("Largest ISO 3320 rod keeping the closed-valve pressure inside the "
-                                             "lowest rating", rod, "length", "mm")
-            advice.append(f"or a thinner rod of {rod * 1e3:g} mm (area ratio "
-                          f"{axis.cylinder.bore ** 2 / (axis.cylinder.bore ** 2 - rod ** 2):.2f})")
-        if axis.arrangement == "meter-out":
-            meter_in = dataclasses.replace(axis, arrangement="meter-in")
-            s = solve(meter_in, loads, axis.temp_min, opening=0.0)
-            p = float(np.max(np.asarray(s.p3)))
-            res["meter_in_closed_rod"] = result("Highest rod pressure with meter-in, valve closed", p, "pressure", "bar")
-            advice.append(f"or meter-in, where the closed valve leaves the rod side at {p / 1e5:.0f} bar "
-                          "(but meter-in cannot hold an overrunning load without a holding valve)")
-        findings.append(finding(
-            "RP-REMEDY", "What to change: " + "; ".join(advice), "highest rod pressure", p_rod_max, lowest,
-            "pressure", "bar", "caution" if p_rod_max <= lowest else "fail",
-            "common practice", (lowest - p_rod_max) / lowest))
+        findings.append(_remedy(axis, loads, solved, lowest, lowest_name, margin_share,
+                                values["limits"]["buckling_factor"], res))
     series = {}
     regimes = {}
     for case, (p1, p3, reg) in curves.items():

@@ -21,6 +21,7 @@ from __future__ import annotations
 
 import numpy as np
 
+from .. import inputs
 from .. import restrictor as rs
 from ..errors import InputError
 from ..fluid import Oil
@@ -68,15 +69,32 @@ def run(values) -> Outcome:
     cd = fv["cd"]
     tol = op["speed_tolerance"]
 
-    drilled = rs.drilled_orifice(q, dp, rho, mu, cd=cd)
+    try:
+        drilled = rs.drilled_orifice(q, dp, rho, mu, cd=cd)
+    except InputError as exc:
+        raise InputError("study.target_flow", f"{q * 6e4:g} L/min at {dp / 1e5:g} bar",
+                         f"a flow and drop whose orifice fits the drill series ({exc.allowed})") from None
     d_exact, d_drill = float(drilled.exact_diameter), float(drilled.drill_diameter)
     orifice = rs.SharpOrifice(d_drill, cd=cd)
     throttle_size = rs.throttle_diameter(q, dp, rho, mu, fv["length"])
     throttle = rs.LongThrottle(float(throttle_size.diameter), fv["length"])
-    lift = rs.needle_lift(q, dp, rho, mu, fv["seat_diameter"], fv["half_angle"], cd=cd)
+    try:
+        lift = rs.needle_lift(q, dp, rho, mu, fv["seat_diameter"], fv["half_angle"], cd=cd)
+    except InputError as exc:
+        raise InputError("flow_valve.seat_diameter", f"{fv['seat_diameter'] * 1e3:g} mm",
+                         f"a needle seat large enough for {q * 6e4:g} L/min at {dp / 1e5:g} bar "
+                         f"({exc.allowed})") from None
     needle = rs.NeedleThrottle(fv["seat_diameter"], fv["half_angle"], float(lift.lift), cd=cd)
     turns = float(lift.lift) / fv["pitch"]
+    turns_field = inputs.FLOW_VALVE["turns"]
+    if turns > turns_field.high:
+        raise InputError("flow_valve.pitch", f"{fv['pitch'] * 1e3:g} mm",
+                         f"a thread pitch that opens the needle within {turns_field.high:g} turns "
+                         f"(this duty needs {turns:.4g} turns)")
     models = dict(zip(CANDIDATES, (orifice, throttle, needle)))
+    sized_regime = {name: str(np.asarray(state.regime).ravel()[0]) for name, state in
+                    zip(CANDIDATES, (drilled.state, throttle_size.state, lift.state))}
+    short_throttle = fv["length"] < 10.0 * float(throttle_size.diameter)
 
     # flow against temperature at the available drop
     n = int(values["study"].get("points", 400))
@@ -105,6 +123,13 @@ def run(values) -> Outcome:
         "SZ-DRILL", "The drilled orifice passes the target flow within the speed tolerance",
         "flow error of the drill size", flow_error, tol, "dimensionless", "%", level, "common practice", margin,
         detail=f"exact bore {d_exact * 1e3:.3f} mm, drill {d_drill * 1e3:.2f} mm"))
+    if short_throttle:
+        d_t = float(throttle_size.diameter)
+        findings.append(finding(
+            "SZ-THROTTLE-LENGTH", "The long throttle is at least 10 bores long, as its model assumes",
+            "throttle length", fv["length"], 10.0 * d_t, "length", "mm", "caution", "common practice",
+            (fv["length"] - 10.0 * d_t) / (10.0 * d_t),
+            detail="shorter than that it behaves between an orifice and a throttle; its figures here are rough"))
     if d_drill < SMALL_ORIFICE:
         findings.append(finding(
             "SZ-CLOG", "Orifice bore is large enough not to clog without a protecting screen",
@@ -125,7 +150,7 @@ def run(values) -> Outcome:
             f"SZ-TEMP-{key.upper()}", f"Flow of the {name} stays within the speed tolerance over the oil "
             "temperature range", f"flow change of the {name}", spread, tol, "dimensionless", "%", level,
             "common practice", margin,
-            detail=f"regime at sizing temperature: {str(np.asarray(flow_dp[name].regime)[-1])}")))
+            detail=f"regime at the available drop and the sizing temperature: {sized_regime[name]}")))
 
     figures = {
         "flow_vs_drop": {

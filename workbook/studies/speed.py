@@ -40,6 +40,7 @@ FIELDS = AXIS_FIELDS + HOLDING_FIELDS + (
     ("flow_valve", "length"), ("flow_valve", "compensator_drop"), ("flow_valve", "min_drop"),
     ("flow_valve", "droop"), ("flow_valve", "check_cracking"),
     ("study", "design_temp"), ("study", "load_min"), ("study", "load_max"), ("study", "points"),
+    ("limits", "heat_share"),
 )
 
 #: the inputs the panel keeps in view (the rest fold away by section)
@@ -86,7 +87,7 @@ def candidates(values):
                          f"a speed the pump ({base.supply.flow * 6e4:.4g} L/min) can fill, at most "
                          f"{base.supply.flow / a_drive * 1e3:.4g} mm/s")
     loads = np.asarray(base.loads, dtype=float)
-    f_ref = float(np.median(loads))
+    f_ref = float(np.sort(loads)[loads.size // 2])     # a real load case: the middle one
     check = CheckValve(fv["check_cracking"])
     comp = CompensatedFlowValve.from_setting(q_valve, float(base.oil.density(313.15)), cd=fv["cd"],
                                              compensator_drop=fv["compensator_drop"], min_drop=fv["min_drop"],
@@ -180,7 +181,8 @@ def run(values) -> Outcome:
             "title": "Throttling heat against load", "x_label": "Load [kN]", "y_label": "Heat [kW]",
             "x": curve(loads / 1e3),
             "series": {name: curve(np.asarray(s.loss_total) / 1e3) for name, s in sols.items()},
-            "limits": {"drive power": values["supply"]["drive_power"] / 1e3},
+            "limits": {"heat share of drive power":
+                       values["limits"]["heat_share"] * values["supply"]["drive_power"] / 1e3},
         },
     }
     per_series = {name: regime_list(s) for name, s in sols.items()}
