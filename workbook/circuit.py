@@ -93,8 +93,8 @@ from .cylinder import Cylinder
 from .errors import InputError
 from .fluid import P_ATM, Oil
 from .supply import Supply
-from .valve import (BackPressureValve, CheckValve, CompensatedFlowValve, CounterbalanceValve, RestrictorValve,
-                    check_opening)
+from .valve import (CHECK_GRADIENT_DEFAULT, BackPressureValve, CheckValve, CompensatedFlowValve,
+                    CounterbalanceValve, RestrictorValve, check_opening)
 
 _BAR = 1e5
 _LPM = 1.0 / 60000.0
@@ -732,10 +732,15 @@ def _regimes(axis, m, lay, opening, v, branch, p_d_dem, p_o_dem, q_relief, dp_fv
 
 
 # --------------------------------------------------------------------------- building
+def _holding_check(hold: Mapping) -> CheckValve:
+    """The holding valve's free-flow check from the ``holding`` section."""
+    return CheckValve(hold.get("check_cracking", _BAR), hold.get("check_gradient") or CHECK_GRADIENT_DEFAULT)
+
+
 def _flow_valve_from_values(fv: Mapping, oil: Oil):
     from .restrictor import LongThrottle, NeedleThrottle, SharpOrifice
     kind = fv.get("kind", "compensated")
-    check = CheckValve(fv.get("check_cracking", 0.5 * _BAR))
+    check = CheckValve(fv.get("check_cracking", 0.5 * _BAR), fv.get("check_gradient") or CHECK_GRADIENT_DEFAULT)
     cd = fv.get("cd", 0.61)
     if kind == "orifice":
         return RestrictorValve(SharpOrifice(fv["diameter"], cd=cd), check, kind="orifice")
@@ -850,9 +855,9 @@ def _axis_from_values(values: Mapping[str, Mapping]) -> Axis:
         r = hold.get("pilot_ratio")
         if r is None or not r > 0:
             raise InputError("pilot_ratio", r, "a pilot ratio greater than 0 (for example 3 for 3:1)")
-        holding = CounterbalanceValve(hold["setting"], r, hold["gradient"], CheckValve(hold.get("check_cracking", _BAR)))
+        holding = CounterbalanceValve(hold["setting"], r, hold["gradient"], _holding_check(hold))
     elif kind == "back-pressure":
-        holding = BackPressureValve(hold["setting"], hold["gradient"], CheckValve(hold.get("check_cracking", _BAR)))
+        holding = BackPressureValve(hold["setting"], hold["gradient"], _holding_check(hold))
     elif kind != "none":
         raise InputError("holding.kind", repr(kind), "one of 'none', 'counterbalance', 'back-pressure'")
     if holding is not None and hold["setting"] >= supply.relief.full_flow and kind == "back-pressure":

@@ -139,6 +139,9 @@ FLOW_VALVE = Section(
               help="flow change per 100 bar of valve drop above the minimum", source="from memory"),
         Field("check_cracking", "Reverse check cracking", "pressure", "bar", 0.5, low=0, high=20,
               help="cracking pressure of the reverse free-flow check", source="typical 0.3 to 5 bar (from memory)"),
+        Field("check_gradient", "Reverse check flow drop", "pressure_per_flow", "bar/(L/min)", 0.1, low=0,
+              low_open=True, high=100, help="drop of the reverse check per flow above cracking",
+              source="from memory"),
     ),
 )
 
@@ -159,6 +162,9 @@ HOLDING = Section(
               high=100, help="pressure rise above the opening point per flow", source="from memory"),
         Field("check_cracking", "Reverse check cracking", "pressure", "bar", 1, low=0, high=20,
               help="cracking pressure of the free-flow check", source="typical 0.3 to 5 bar (from memory)"),
+        Field("check_gradient", "Reverse check flow drop", "pressure_per_flow", "bar/(L/min)", 0.1, low=0,
+              low_open=True, high=100, help="drop of the free-flow check per flow above cracking",
+              source="from memory"),
     ),
 )
 

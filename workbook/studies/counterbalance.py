@@ -25,7 +25,7 @@ import dataclasses
 import numpy as np
 
 from ..circuit import solve
-from ..valve import BackPressureValve, CheckValve, CounterbalanceValve
+from ..valve import BackPressureValve, CounterbalanceValve
 from ..errors import InputError
 from .base import Outcome, curve, finding, grade, result
 from .common import AXIS_FIELDS, FLOW_VALVE_FIELDS, build_axis, section_fields, regime_list, sweep
@@ -77,7 +77,7 @@ def run(values) -> Outcome:
     ratios = [r for r in values["study"]["pilot_ratios"]]
     if any(not r > 0 for r in ratios):
         raise InputError("study.pilot_ratios", ratios, "pilot ratios greater than 0 (3 means 3:1)")
-    check = CheckValve(hold["check_cracking"])
+    check = base.holding.check  # the design's free-flow check, cracking and flow drop
 
     res = {
         "load_pressure_max": result("Highest load-induced holding pressure", p_load_max, "pressure", "bar"),

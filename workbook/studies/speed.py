@@ -1,4 +1,4 @@
-"""Load sensitivity of speed: orifice, long throttle and pressure-compensated valve compared.
+"""Load sensitivity of speed: orifice, long throttle, needle and pressure-compensated valve compared.
 
 The three candidates are sized to the same duty: the target speed of the controlled motion
 at the reference load (the middle load case) and the sizing temperature. The compensated
@@ -24,13 +24,13 @@ import numpy as np
 from .. import restrictor as rs
 from ..circuit import METERING, solve
 from ..errors import InputError
-from ..valve import CheckValve, CompensatedFlowValve, RestrictorValve
+from ..valve import CompensatedFlowValve, RestrictorValve
 from .base import Outcome, as_alternative, curve, finding, grade, ratio_result, result
 from .common import AXIS_FIELDS, HOLDING_FIELDS, build_axis, regime_list, sweep
 
 KIND = "speed-vs-load"
 TITLE = "Load sensitivity of speed"
-PURPOSE = ("Speed against load for an orifice, a long throttle and a pressure-compensated valve sized "
+PURPOSE = ("Speed against load for an orifice, a long throttle, a needle and a pressure-compensated valve sized "
            "to the same duty, in the chosen metering arrangement, with pump pressure, losses and the "
            "speed variation over the load range.")
 NORMAL_REGIME = METERING
@@ -38,7 +38,8 @@ NORMAL_REGIME = METERING
 FIELDS = AXIS_FIELDS + HOLDING_FIELDS + (
     ("flow_valve", "arrangement"), ("flow_valve", "direction"), ("flow_valve", "kind"), ("flow_valve", "cd"),
     ("flow_valve", "length"), ("flow_valve", "compensator_drop"), ("flow_valve", "min_drop"),
-    ("flow_valve", "droop"), ("flow_valve", "check_cracking"),
+    ("flow_valve", "droop"), ("flow_valve", "check_cracking"), ("flow_valve", "check_gradient"),
+    ("flow_valve", "seat_diameter"), ("flow_valve", "half_angle"), ("flow_valve", "pitch"),
     ("study", "design_temp"), ("study", "load_min"), ("study", "load_max"), ("study", "points"),
     ("limits", "heat_share"),
 )
@@ -48,10 +49,12 @@ KEY_FIELDS = (
     ("cylinder", "bore"), ("cylinder", "rod"), ("flow_valve", "arrangement"), ("flow_valve", "direction"),
     ("operation", "target_speed"), ("operation", "loads"), ("study", "design_temp"),
 )
-CANDIDATES = ("orifice", "long throttle", "compensated valve")
-SHORT = {"orifice": "orifice", "long throttle": "throttle", "compensated valve": "compensated"}
+CANDIDATES = ("orifice", "long throttle", "needle throttle", "compensated valve")
+SHORT = {"orifice": "orifice", "long throttle": "throttle", "needle throttle": "needle",
+         "compensated valve": "compensated"}
 #: the design's ``flow_valve.kind`` -> the candidate that is the design's own valve
-DESIGN_KIND = {"orifice": "orifice", "throttle": "long throttle", "compensated": "compensated valve"}
+DESIGN_KIND = {"orifice": "orifice", "throttle": "long throttle", "needle": "needle throttle",
+               "compensated": "compensated valve"}
 
 
 def valve_flow_for_speed(axis, speed: float) -> float:
@@ -72,7 +75,7 @@ def valve_flow_for_speed(axis, speed: float) -> float:
 
 
 def candidates(values):
-    """The three sized axes and their sizes: ``{name: (axis, size_result_entries)}``."""
+    """The candidates sized to one duty and their sizes: ``({name: axis}, {key: result entry})``."""
     base = build_axis(values)
     fv, op, st = values["flow_valve"], values["operation"], values["study"]
     t = st["design_temp"]
@@ -88,7 +91,7 @@ def candidates(values):
                          f"{base.supply.flow / a_drive * 1e3:.4g} mm/s")
     loads = np.asarray(base.loads, dtype=float)
     f_ref = float(np.sort(loads)[loads.size // 2])     # a real load case: the middle one
-    check = CheckValve(fv["check_cracking"])
+    check = base.flow_valve.check  # the design's reverse check, cracking and flow drop
     comp = CompensatedFlowValve.from_setting(q_valve, float(base.oil.density(313.15)), cd=fv["cd"],
                                              compensator_drop=fv["compensator_drop"], min_drop=fv["min_drop"],
                                              droop=fv["droop"], check=check)
@@ -106,6 +109,16 @@ def candidates(values):
                                                                  kind="orifice"))
     axis_t = dataclasses.replace(base, flow_valve=RestrictorValve(rs.LongThrottle(d_throttle, fv["length"]), check,
                                                                  kind="throttle"))
+    candidates_ = {"orifice": axis_o, "long throttle": axis_t}
+    try:
+        lift = float(rs.needle_lift(q_ref, dp_ref, rho, mu, fv["seat_diameter"], fv["half_angle"], cd=fv["cd"]).lift)
+    except InputError:
+        lift = None   # the seat cannot pass this duty: the needle is left out of the comparison
+    if lift is not None:
+        needle = rs.NeedleThrottle(fv["seat_diameter"], fv["half_angle"], lift, cd=fv["cd"])
+        candidates_["needle throttle"] = dataclasses.replace(base, flow_valve=RestrictorValve(needle, check,
+                                                                                             kind="needle"))
+    candidates_["compensated valve"] = axis_c
     sizes = {
         "reference_load": result("Reference load (middle load case)", f_ref, "force", "kN"),
         "reference_drop": result("Valve drop at the reference load", dp_ref, "pressure", "bar"),
@@ -113,7 +126,10 @@ def candidates(values):
         "orifice_bore": result("Orifice bore for the same duty", d_orifice, "length", "mm"),
         "throttle_bore": result("Throttle bore for the same duty", d_throttle, "length", "mm"),
     }
-    return {"orifice": axis_o, "long throttle": axis_t, "compensated valve": axis_c}, sizes
+    if lift is not None:
+        sizes["needle_turns"] = {"value": lift / fv["pitch"], "unit": "turns",
+                                 "label": "Needle opening for the same duty"}
+    return candidates_, sizes
 
 
 class _Part:
