@@ -558,7 +558,7 @@ def wait_for_idle(page, timeout_ms: int = DEFAULT_TIMEOUT_MS, settle_ms: int = 3
 WIDGET_RACE_TEXT = "Error displaying widget"
 
 
-def run_all_cells(page, via: str = "command", timeout_ms: int = 180_000, widget_race_retries: int = 1) -> None:
+def run_all_cells(page, via: str = "command", timeout_ms: int = 180_000, widget_race_retries: int = 2) -> None:
     """Run every cell of the current notebook and wait until all have run.
 
     ``via="command"`` executes the ``notebook:run-all-cells`` command;
@@ -572,6 +572,8 @@ def run_all_cells(page, via: str = "command", timeout_ms: int = 180_000, widget_
     """
     _run_all_once(page, via, timeout_ms)
     for attempt in range(widget_race_retries):
+        # the message is rendered a moment after the kernel goes idle: look for a while
+        page.wait_for_timeout(2500)
         if page.get_by_text(WIDGET_RACE_TEXT).count() == 0:
             return
         print(f"[browser] widget front-end race ({WIDGET_RACE_TEXT}); running all cells again "
@@ -584,7 +586,7 @@ def run_all_cells(page, via: str = "command", timeout_ms: int = 180_000, widget_
 def _run_all_once(page, via: str, timeout_ms: int) -> None:
     wait_for_idle(page)
     # give the widget manager a moment to register with a freshly started kernel
-    page.wait_for_timeout(750)
+    page.wait_for_timeout(2000)
     before = page.evaluate(_JS_BUSY_COUNTER)
     if via == "menu":
         page.locator(".lm-MenuBar-itemLabel", has_text=re.compile(r"^Run$")).first.click()
