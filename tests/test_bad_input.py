@@ -70,3 +70,11 @@ def test_bad_input_is_named(what, call, field, words):
 
 def test_at_least_twenty_cases():
     assert len(CASES) >= 20
+
+
+def test_every_default_names_its_source():
+    """House rule: an engineering default says where it comes from (a standard, "common
+    practice", "from memory", the user's data sheet or the demo scenario)."""
+    missing = [f"{s.key}.{f.key}" for s in inputs.SECTIONS for f in s.fields
+               if f.dimension != "text" and f.default not in (None, "") and not f.source]
+    assert not missing, missing
