@@ -26,10 +26,18 @@ class InputError(ValueError):
     """
 
     def __init__(self, field: str, given: object, allowed: str):
-        self.field = str(field)
-        self.given = str(given)
+        # echo a short excerpt only: a megabyte line in a message helps nobody
+        self.field = _excerpt(str(field), 200)
+        self.given = _excerpt(str(given), 160)
         self.allowed = str(allowed)
         super().__init__(f"{self.field}: got {self.given}; allowed: {self.allowed}")
+
+
+def _excerpt(text: str, limit: int) -> str:
+    """``text`` cut to ``limit`` characters with its length said (see :func:`workbook.safetext.excerpt`)."""
+    if len(text) <= limit:
+        return text
+    return f"{text[:limit]}... ({len(text)} characters)"
 
 
 class ModelValidityError(InputError):

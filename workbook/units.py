@@ -53,6 +53,7 @@ from typing import Any
 
 import numpy as np
 
+from . import safetext
 from .errors import InputError
 
 #: internal (SI) unit of each dimension name, as a pint unit expression
@@ -147,6 +148,65 @@ def _clean_unit(text: str) -> str:
     return text
 
 
+#: the longest quantity text (number and unit) parsed; longer text is refused before pint sees it
+MAX_TEXT = 80
+#: the largest exponent magnitude of a unit power (``mm**3``, ``m**-1``)
+MAX_EXPONENT = 12
+_POWER = re.compile(r"(\*\*|\^)\s*")
+_EXPONENT = re.compile(r"[-+]?\s*(?:\d+\.?\d*|\.\d+)")
+#: units a dimensionless field accepts: a plain number or a percentage, never an angle
+DIMENSIONLESS_UNITS = ("dimensionless", "percent")
+
+
+def unit_problem(unit: str) -> str | None:
+    """Why the unit text ``unit`` is refused before pint parses it, or None when it may be parsed.
+
+    Pint evaluates a unit expression: a power of a power (``mm**9**9**9``) runs for hours and
+    a very long name takes quadratic time. So the text is capped at :data:`MAX_TEXT`
+    characters, every power must be a plain number of magnitude at most
+    :data:`MAX_EXPONENT`, one power at a time, and control, zero-width and bidirectional
+    characters (which the tokenizer would silently drop) are refused.
+
+    >>> unit_problem("bar/(L/min)") is None
+    True
+    >>> unit_problem("mm**9**9**9")
+    'one power at a time (a power of a power such as mm**9**9 is not a unit)'
+    >>> unit_problem("m**40")
+    'powers of at most 12 (m**40 was given)'
+    """
+    if len(unit) > MAX_TEXT:
+        return f"a unit of at most {MAX_TEXT} characters ({len(unit)} were given)"
+    found = safetext.first_unsafe(unit)
+    if found is not None:
+        return f"{safetext.ALLOWED} (found {safetext.describe(found[1])})"
+    for m in _POWER.finditer(unit):
+        exp = _EXPONENT.match(unit, m.end())
+        if exp is None:
+            return "powers that are plain numbers, e.g. mm**3"
+        try:
+            size = abs(float(exp.group(0).replace(" ", "")))
+        except ValueError:
+            return "powers that are plain numbers, e.g. mm**3"
+        if _POWER.match(unit, exp.end()) or unit[exp.end():exp.end() + 1] == "(":
+            return "one power at a time (a power of a power such as mm**9**9 is not a unit)"
+        if size > MAX_EXPONENT:
+            return f"powers of at most {MAX_EXPONENT} ({unit[m.start() - 1 if m.start() else 0:exp.end()].strip()} was given)"
+    return None
+
+
+def _quantity_of(number, unit: str, field: str, shown: Any, allowed: str):
+    """``Quantity(number, unit)`` after :func:`unit_problem`; every pint error as InputError."""
+    reg = registry()
+    problem = unit_problem(unit)
+    if problem is not None:
+        raise InputError(field, shown, f"{allowed} ({problem})")
+    unit = _clean_unit(unit)
+    try:
+        return reg.Quantity(number, unit)
+    except Exception as exc:  # noqa: BLE001 - pint raises several types (UndefinedUnitError, TokenError, ...)
+        raise InputError(field, shown, allowed + f" ('{unit}' is not a unit known here)") from exc
+
+
 def _as_quantity(value: Any, dimension: str, field: str, default_unit: str | None):
     """Turn text, a pint quantity or a number into a pint quantity (not yet converted)."""
     reg = registry()
@@ -166,16 +226,23 @@ def _as_quantity(value: Any, dimension: str, field: str, default_unit: str | Non
             if dimension == "dimensionless":
                 return reg.Quantity(float(value), "dimensionless")
             raise InputError(field, value, allowed + " (a bare number needs a unit here)")
-        return reg.Quantity(float(value), _clean_unit(default_unit))
+        return _quantity_of(float(value), str(default_unit), field, value, allowed)
     if isinstance(value, np.ndarray):
         unit = default_unit or ("dimensionless" if dimension == "dimensionless" else None)
         if unit is None:
             raise InputError(field, "an array without a unit", allowed)
-        return reg.Quantity(value.astype(float), _clean_unit(unit))
+        try:
+            numbers = value.astype(float)
+        except (TypeError, ValueError):
+            raise InputError(field, "an array that is not numbers", allowed) from None
+        return _quantity_of(numbers, str(unit), field, "an array", allowed)
     if isinstance(value, str):
         text = value.strip()
         if not text:
             raise InputError(field, "an empty entry", allowed)
+        if len(text) > MAX_TEXT:
+            raise InputError(field, repr(text), f"{allowed} (at most {MAX_TEXT} characters)")
+        safetext.check(value, field)
         match = _NUMBER.match(text)
         if match is None:
             raise InputError(field, repr(value), allowed + " (start with a number)")
@@ -185,11 +252,7 @@ def _as_quantity(value: Any, dimension: str, field: str, default_unit: str | Non
             if default_unit is None and dimension != "dimensionless":
                 raise InputError(field, repr(value), allowed + " (the unit is missing)")
             unit = default_unit or "dimensionless"
-        unit = _clean_unit(unit)
-        try:
-            return reg.Quantity(number, unit)
-        except Exception as exc:  # noqa: BLE001 - pint raises several types
-            raise InputError(field, repr(value), allowed + f" ('{unit}' is not a unit known here)") from exc
+        return _quantity_of(number, unit, field, repr(value), allowed)
     raise InputError(field, f"a {type(value).__name__}", allowed)
 
 
@@ -234,6 +297,10 @@ def to_si(value: Any, dimension: str, field: str = "value", default_unit: str | 
             repr(value) if isinstance(value, str) else value,
             f"a {dimension.replace('_', ' ')} with a unit, e.g. {EXAMPLES[dimension]} ({given} was given)",
         )
+    if dimension == "dimensionless" and str(q.units) not in DIMENSIONLESS_UNITS:
+        raise InputError(field, repr(value) if isinstance(value, str) else value,
+                         f"a plain number or a percentage, e.g. {EXAMPLES[dimension]}, 15 % "
+                         f"(not a quantity in {q.units})")
     magnitude = q.to(target).magnitude
     arr = np.asarray(magnitude, dtype=float)
     if not np.all(np.isfinite(arr)):
@@ -320,5 +387,7 @@ __all__ = [
     "from_si",
     "quantity",
     "check_unit",
+    "unit_problem",
+    "MAX_TEXT",
     "format_value",
 ]
