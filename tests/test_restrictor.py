@@ -258,12 +258,14 @@ def test_needle_area_by_hand_and_cap():
 
 
 def test_needle_from_turns_and_flow_by_hand():
-    """Lift = turns/(2 pi) * pitch; 1.5 turns of a 0.5 mm thread = 0.75 mm. Flow at 50 bar
+    """Lift = turns * pitch; 1.5 turns of a 0.5 mm thread = 0.75 mm (from_turns takes turns,
+    from_angle the same opening in radians, 3 pi). Flow at 50 bar
     (orifice equation by hand): A = pi*h*s*(d - h*s*c) with h*s = 0.1941142 mm,
     h*s*c = 0.1875 mm (s*c = sin(30 deg)/2): A = pi*0.1941142*3.8125 = pi*0.7400606
     = 2.324969 mm^2; Q = 0.61*2.324969e-6*107.2113 = 1.520505e-4 m^3/s."""
-    n = NeedleThrottle.from_turns(4e-3, math.radians(15), 3 * math.pi, 0.5e-3)
+    n = NeedleThrottle.from_turns(4e-3, math.radians(15), 1.5, 0.5e-3)
     assert n.lift == pytest.approx(0.75e-3, rel=1e-15)                          # by hand
+    assert NeedleThrottle.from_angle(4e-3, math.radians(15), 3 * math.pi, 0.5e-3).lift == pytest.approx(0.75e-3)
     r = n.flow(50e5, 870.0, 0.040)
     assert str(r.regime) == "turbulent"
     assert float(r.flow) == pytest.approx(1.520505e-4, rel=1e-5)               # by hand

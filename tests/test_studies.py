@@ -64,7 +64,7 @@ def test_rod_pressure_closed_meter_out_and_its_remedies():
     ax = axis_from_values(v)
     c = ax.cylinder
     f_min = min(ax.loads)
-    p3 = (172 * BAR * c.a1 - f_min) / c.a3
+    p3 = ((172 * BAR + ax.tank_pressure) * c.a1 - f_min) / c.a3     # the relief drains to the tank port
     assert out.results["p_extend_valve_closed_rod"]["value"] == pytest.approx(p3 / BAR, rel=1e-9)
     assert out.results["relief_for_rating"]["value"] == pytest.approx((210 * BAR * c.a3 + f_min) / c.a1 / BAR)
     rod = out.results["largest_safe_rod"]["value"] / 1e3
@@ -78,8 +78,9 @@ def test_rod_pressure_closed_meter_out_and_its_remedies():
 
 def test_counterbalance_pilot_to_lower_matches_the_solver():
     """Lowering against a counterbalance on the cap side (lift axis, retracting):
-    opening (p1 - p_t) + R p3 = p_set + g Q and force balance p1 A1 - p3 A3 = F - F_fr give
-    p3 = (p_set + g Q + p_t - p_L) / (R + A3/A1) with p_L = (F - F_fr)/A1."""
+    opening of an outlet-referenced valve (p1 - p_t) + R (p3 - p_t) = p_set + g Q and force
+    balance p1 A1 - p3 A3 = F - F_fr give p3 = (p_set + g Q + (1 + R) p_t - p_L) / (R + A3/A1)
+    with p_L = (F - F_fr)/A1."""
     v = demo("lift")
     ax = axis_from_values(v)
     c = ax.cylinder
@@ -88,7 +89,8 @@ def test_counterbalance_pilot_to_lower_matches_the_solver():
         q = float(sol.q_holding)
         p_l = (load - ax.friction) / c.a1
         g = ax.holding.gradient
-        expected = (ax.holding.setting + g * q + ax.tank_pressure - p_l) / (ax.holding.pilot_ratio + c.a3 / c.a1)
+        r = ax.holding.pilot_ratio
+        expected = (ax.holding.setting + g * q + (1 + r) * ax.tank_pressure - p_l) / (r + c.a3 / c.a1)
         assert float(sol.p_pilot) == pytest.approx(expected, rel=1e-6)
         # the study's helper is the same formula at Q -> 0 and outlet at 0 bar
         assert counterbalance.pilot_to_lower(ax.holding.setting, p_l, ax.holding.pilot_ratio, c.a3 / c.a1) \

@@ -95,11 +95,35 @@ def test_counterbalance_opening_condition():
     cb = CounterbalanceValve(130e5, 3.0, g)
     assert float(cb.flow(40e5, 29.9e5)) == 0.0              # 40 + 89.7 < 130
     assert float(cb.flow(40e5, 32e5)) == pytest.approx(6e5 / g)
-    # outlet pressure acts against the inlet (our model): 2 bar back pressure costs 2 bar of opening
-    assert float(cb.flow(42e5, 32e5, 2e5)) == pytest.approx(6e5 / g)
+    # spring chamber draining to the outlet (the default): 2 bar on the outlet adds (1 + R) 2 = 8 bar
+    # to the opening pressure (poppet force balance: outlet on the seat annulus, the spring side
+    # and the back of the pilot piston; common practice, from memory)
+    assert float(cb.flow(48e5, 32e5, 2e5)) == pytest.approx(6e5 / g)
     assert float(cb.inlet_pressure(6e5 / g, 32e5)) == pytest.approx(40e5)
+    assert float(cb.inlet_pressure(6e5 / g, 32e5, 2e5)) == pytest.approx(48e5)
+    # vented to air: the outlet pressure does not move the opening point
+    vented = CounterbalanceValve(130e5, 3.0, g, spring_chamber="vented")
+    assert float(vented.flow(40e5, 32e5, 2e5)) == pytest.approx(6e5 / g)
+    assert float(vented.opening_pressure(32e5, 50e5)) == pytest.approx(130e5 - 96e5)
     # reverse free flow through its check (1 bar cracking)
     assert float(cb.flow(0.0, 0.0, 3e5)) < 0.0
+
+
+@pytest.mark.parametrize("chamber", ["outlet-referenced", "vented"])
+def test_counterbalance_fully_open_keeps_a_drop(chamber):
+    """Held fully open by its pilot the valve is a fully open restriction, dp = r Q (our
+    linear law, r the open gradient): with 0.2 bar per L/min, 15 L/min costs 3 bar whatever
+    the pilot (by hand). The inverse in the outlet pressure gives the inlet back."""
+    g, r = 0.5e5 / LPM, 0.2e5 / LPM
+    cb = CounterbalanceValve(130e5, 4.0, g, spring_chamber=chamber, open_gradient=r)
+    q = 15 * LPM
+    for pilot in (60e5, 120e5):
+        assert float(cb.inlet_pressure(q, pilot, 10e5)) == pytest.approx(13e5)
+        assert float(cb.flow(13e5, pilot, 10e5)) == pytest.approx(q)
+    p_in = np.array([20e5, 80e5, 150e5])
+    p_out = cb.outlet_pressure(q, p_in, 40e5)
+    assert np.allclose(cb.inlet_pressure(q, 40e5, p_out), p_in, rtol=1e-12)
+    assert np.allclose(cb.flow(p_in, 40e5, p_out), q, rtol=1e-9)
 
 
 def test_back_pressure_valve_holds_upstream_at_setting():

@@ -26,17 +26,18 @@ from typing import Callable, Mapping
 import numpy as np
 
 from . import CAUTION
-from .circuit import (CLOSED, HELD, RUNAWAY, STALLED, STARVED, Axis, Solution, solve)
+from .circuit import (CLOSED, DRIVEN_BACK, HELD, RUNAWAY, STALLED, STARVED, UNCONTROLLED, Axis, Solution, solve)
 from .errors import InputError
 from .fluid import P_ATM
 from .inputs import LIMITS
+from .supply import OVERALL_EFFICIENCY_DEFAULT
 from .valve import BackPressureValve, CompensatedFlowValve, CounterbalanceValve
 
 LEVELS = ("fail", "caution", "pass")
 _BAR = 1e5
 
-#: overall efficiency of the pump used to turn hydraulic power into shaft power (from memory)
-PUMP_OVERALL_EFFICIENCY = 0.85
+#: default overall efficiency of the pump (from memory); the design's own is ``supply.overall_efficiency``
+PUMP_OVERALL_EFFICIENCY = OVERALL_EFFICIENCY_DEFAULT
 #: number of oil temperatures evaluated between temp_min and temp_max
 N_TEMPERATURES = 5
 
@@ -67,7 +68,8 @@ class Rule:
     """A design rule as data.
 
     ``measure(ctx)`` returns ``(value, limit, detail)`` or ``None`` when the rule does not
-    concern the axis. ``sense`` is ``"max"`` (value at most limit) or ``"min"`` (at least).
+    concern the axis; a fourth element, a level, overrides the graded one where the value
+    itself cannot be trusted (a speed that is only a lower bound). ``sense`` is ``"max"`` (value at most limit) or ``"min"`` (at least).
     ``broken`` is the level when the limit is crossed (``"fail"`` or ``"caution"``);
     ``margin_key`` names the limit in ``limits`` that sets the caution band.
     """
@@ -139,10 +141,11 @@ def _runaway(ctx):
     n = tot = 0
     where = ""
     for d, o, s in ctx.cases:
-        # running away while moving, or not held with the flow valve closed: the force balance
-        # cannot close (the chamber that should carry the load would need less than the
-        # cavitation limit), so the load moves whatever the valve does
-        bad = (s.regime == RUNAWAY) | ((s.regime == CLOSED) & (np.abs(s.unbalanced_force) > 1.0))
+        # running away while moving, sinking through a holding valve that the trapped load opens,
+        # or not held with the flow valve closed: the force balance cannot close (the chamber
+        # that should carry the load would need less than the cavitation limit), so the load
+        # moves whatever the valve does
+        bad = np.isin(s.regime, UNCONTROLLED) | ((s.regime == CLOSED) & (np.abs(s.unbalanced_force) > 1.0))
         n += int(bad.sum())
         tot += bad.size
         if bad.any() and not where:
@@ -211,8 +214,9 @@ def _drive(ctx):
     drive = ctx.axis.supply.drive_power
     if not math.isfinite(drive):
         return None
-    val, where = ctx.worst(lambda s: s.input_power / PUMP_OVERALL_EFFICIENCY)
-    return val, drive, f"pump shaft power (hydraulic / {PUMP_OVERALL_EFFICIENCY:g}) at: {where}"
+    eta = ctx.axis.supply.overall_efficiency
+    val, where = ctx.worst(lambda s: s.input_power / eta)
+    return val, drive, f"pump shaft power (hydraulic / overall efficiency {eta:g}) at: {where}"
 
 
 def _line_rule(rule_id, line, limit_key, flow_getter, bore_attr, words):
@@ -225,6 +229,17 @@ def _line_rule(rule_id, line, limit_key, flow_getter, bore_attr, words):
                 f"{line} line velocity", "velocity", "max", "common practice", measure, broken="caution")
 
 
+def _suction(ctx):
+    """Suction line velocity from the pump's geometric flow (displacement x speed): what the
+    pump draws when its leakage goes to a case drain, the conservative figure (common
+    practice). ``v = Q_geom / (pi d² / 4)``."""
+    d = ctx.axis.ratings.suction_line_bore
+    q = ctx.axis.supply.suction_flow
+    return q / (math.pi * d * d / 4.0), ctx.limits["v_suction"], (
+        f"mean velocity in the suction line, bore {d * 1e3:g} mm, at the geometric pump flow "
+        f"{q * 6e4:.4g} L/min (displacement x speed; leakage taken to a case drain)")
+
+
 def _speed(ctx):
     a = ctx.axis
     if a.target_speed is None:
@@ -232,14 +247,21 @@ def _speed(ctx):
     s = ctx.controlled_open()
     dev = np.abs(s.speed - a.target_speed) / a.target_speed
     i = np.unravel_index(np.argmax(dev), dev.shape)
-    return float(dev[i]), a.speed_tolerance, (f"worst speed {float(s.speed[i]) * 1e3:.1f} mm/s against target "
-                                              f"{a.target_speed * 1e3:g} mm/s at load {float(s.load[i]) / 1e3:g} kN, "
-                                              f"oil {float(s.temperature[i]) - 273.15:.0f} degC ({s.regime[i]})")
+    detail = (f"worst speed {float(s.speed[i]) * 1e3:.1f} mm/s against target {a.target_speed * 1e3:g} mm/s at "
+              f"load {float(s.load[i]) / 1e3:g} kN, oil {float(s.temperature[i]) - 273.15:.0f} degC ({s.regime[i]})")
+    loose = np.isin(s.regime, UNCONTROLLED)
+    if loose.any():
+        # the speed of a load that runs away is only a lower bound: the check cannot pass on it
+        j = np.unravel_index(np.argmax(loose), loose.shape)
+        return float(dev[i]), a.speed_tolerance, (
+            f"{detail}; {int(loose.sum())} point(s) not under control (e.g. load {float(s.load[j]) / 1e3:g} kN, "
+            f"{s.regime[j]}): their speed is only a lower bound"), "fail"
+    return float(dev[i]), a.speed_tolerance, detail
 
 
 def _stall(ctx):
     s = ctx.controlled_open()
-    bad = np.isin(s.regime, (STALLED, HELD, CLOSED))
+    bad = np.isin(s.regime, (STALLED, HELD, CLOSED, DRIVEN_BACK))
     if bad.any():
         i = np.unravel_index(np.argmax(bad), bad.shape)
         where = f"e.g. load {float(s.load[i]) / 1e3:g} kN ({s.regime[i]})"
@@ -264,10 +286,11 @@ def _buckling_stall(ctx):
     piston, rod side at tank pressure) against the same Euler limit."""
     a = ctx.axis
     c = a.cylinder
-    force = a.supply.relief.full_flow * c.a1 - a.tank_pressure * c.a3
+    force = (a.supply.relief.full_flow + a.tank_pressure) * c.a1 - a.tank_pressure * c.a3
     f_euler = c.euler_buckling_load(length=c.free_length)
     k = ctx.limits["buckling_factor"]
-    return force, f_euler / k, (f"relief full-flow pressure {a.supply.relief.full_flow / _BAR:g} bar on the "
+    return force, f_euler / k, (f"relief full-flow pressure {a.supply.relief.full_flow / _BAR:g} bar above the "
+                                f"{a.tank_pressure / _BAR:g} bar tank back pressure on the "
                                 f"piston; matters if the rod can be driven against a stop or an obstacle")
 
 
@@ -309,8 +332,10 @@ RULES: tuple[Rule, ...] = (
     Rule("HEAT-SHARE", "Throttling heat stays within the allowed share of the installed drive power.",
          "throttling heat", "power", "max", "common practice", _heat, broken="caution"),
     Rule("DRIVE-POWER", "The pump never needs more shaft power than the installed drive.",
-         "pump shaft power", "power", "max", "from memory (pump overall efficiency 0.85)", _drive),
-    _line_rule("V-SUCTION", "suction", "v_suction", lambda s: s.q_pump, "suction_line_bore", "about 1.2 m/s"),
+         "pump shaft power", "power", "max", "P = p Q / overall efficiency (common practice); efficiency from the "
+         "design (default 0.85, from memory)", _drive),
+    Rule("V-SUCTION", "The mean oil velocity in the suction line stays at most about 1.2 m/s.",
+         "suction line velocity", "velocity", "max", "common practice", _suction, broken="caution"),
     _line_rule("V-PRESSURE", "pressure", "v_pressure", lambda s: s.q_pump, "pressure_line_bore", "3 to 6 m/s"),
     _line_rule("V-RETURN", "return", "v_return", lambda s: s.q_cylinder_out + s.q_relief + s.q_bleed,
                "return_line_bore", "2 to 4 m/s (relief taken to drain into it)"),
@@ -366,11 +391,13 @@ def evaluate(axis: Axis, limits: Mapping | None = None) -> list[Finding]:
         res = rule.measure(ctx)
         if res is None:
             continue
-        value, limit, detail = res
+        value, limit, detail = res[:3]
         value, limit = float(value), float(limit)
         if not (math.isfinite(value) and math.isfinite(limit)):
             raise RuntimeError(f"rule {rule.rule_id} produced a non-finite value")  # pragma: no cover
         margin, level = _level(rule, value, limit, lim)
+        if len(res) > 3:
+            level = res[3]
         out.append(Finding(rule.rule_id, rule.statement, rule.quantity, value, limit, rule.dimension, margin, level,
                            rule.source, detail))
     order = {lv: i for i, lv in enumerate(LEVELS)}

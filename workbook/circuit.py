@@ -59,7 +59,20 @@ Regime labels (:data:`REGIMES`):
                       bound) and the driving chamber is clamped
 ``cavitating``        a chamber is clamped at the cavitation limit but a steady state exists
                       (meter-out: the load outruns the pump and the valve sets the speed)
+``sinking``           the flow valve shuts the driving chamber off, yet the trapped load
+                      pressure is above the holding valve's opening pressure: the valve
+                      opens and the load sinks at the speed the holding valve passes, the
+                      driving chamber voiding (counted as running away)
+``driven back``       the load exceeds what the supply at relief pressure can hold: the axis
+                      moves against the commanded direction (``speed`` < 0), pushing the
+                      driving chamber's oil back over the relief (and through any valve in
+                      that line) while the other chamber refills through its checks
 ===================  =========================================================================
+
+Standstill is tested, not assumed: where the solved speed is 0 the solver asks whether the
+load drives the piston back (force balance in the opposite direction, friction now helping
+the supply) and, with a closed meter-in valve, whether the trapped holding chamber exceeds
+its valve's opening pressure (setting, outlet and pilot terms); either motion is solved.
 
 Worked example (checked by hand): an 80/45 cylinder extending against 20 kN with a
 12 L/min compensated meter-out valve in the rod line, 21.6 L/min pump, relief 160/172 bar.
@@ -93,7 +106,7 @@ from .cylinder import Cylinder
 from .errors import InputError
 from .fluid import P_ATM, Oil
 from .supply import Supply
-from .valve import (CHECK_GRADIENT_DEFAULT, BackPressureValve, CheckValve, CompensatedFlowValve,
+from .valve import (CB_OPEN_GRADIENT_DEFAULT, CHECK_GRADIENT_DEFAULT, BackPressureValve, CheckValve, CompensatedFlowValve,
                     CounterbalanceValve, RestrictorValve, check_opening)
 
 _BAR = 1e5
@@ -112,8 +125,13 @@ HELD = "held"
 CLOSED = "valve closed"
 RUNAWAY = "running away"
 CAVITATING = "cavitating"
+SINKING = "sinking"
+DRIVEN_BACK = "driven back"
 #: every regime label a Solution can carry
-REGIMES = (METERING, STARVED, PUMP_LIMITED, RELIEF, STALLED, HELD, CLOSED, RUNAWAY, CAVITATING)
+REGIMES = (METERING, STARVED, PUMP_LIMITED, RELIEF, STALLED, HELD, CLOSED, RUNAWAY, CAVITATING, SINKING,
+           DRIVEN_BACK)
+#: regimes in which the load moves although nothing meters it (the runaway rule counts them)
+UNCONTROLLED = (RUNAWAY, SINKING)
 
 #: default lowest absolute chamber pressure, Pa abs (from memory; limits.cavitation_abs)
 CAVITATION_ABS_DEFAULT = 0.3 * _BAR
@@ -378,6 +396,13 @@ class _Model:
         self.pcav = axis.cavitation_gauge
         self.v_max = self.qp / lay.a_d
 
+    # the relief drains to the tank port, which sits at the return-line back pressure
+    def relief_flow(self, p):
+        return self.relief.flow(p, self.pt)
+
+    def relief_pressure(self, q):
+        return self.relief.pressure(q, self.pt)
+
     # supply-path drop between the pump line (or meter-in outlet / bleed tee) and p_d
     def dp_supply(self, q_in):
         d = np.zeros_like(q_in)
@@ -399,13 +424,15 @@ class _Model:
         """Driving and driven pressures from the return side and the force balance."""
         a_d, a_o = self.lay.a_d, self.lay.a_o
         if self.lay.hold_driven and isinstance(self.hold, CounterbalanceValve):
-            r, g = self.hold.pilot_ratio, self.hold.gradient
-            c = p_m + self.hold.setting + g * q_out
+            h = self.hold
+            r, g = h.pilot_ratio, h.gradient
+            c = h.setting + h.outlet_factor * p_m + g * q_out   # p_o = c - R p_d while metering
             p_d = (f_res + c * a_o) / (a_d + r * a_o)
             p_o = c - r * p_d
-            wide = p_o < p_m                              # pilot alone holds it fully open
-            p_d_w = (f_res + p_m * a_o) / a_d
-            return np.where(wide, p_d_w, p_d), np.where(wide, p_m, p_o)
+            p_o_w = p_m + h.open_gradient * q_out             # pilot alone holds it fully open
+            wide = p_o < p_o_w
+            p_d_w = (f_res + p_o_w * a_o) / a_d
+            return np.where(wide, p_d_w, p_d), np.where(wide, p_o_w, p_o)
         if self.lay.hold_driven:                          # back-pressure valve
             p_o = self.hold.inlet_pressure(q_out, p_m)
         else:
@@ -415,8 +442,7 @@ class _Model:
     def mid_from_chambers(self, q_out, p_d, p_o):
         """Holding valve outlet pressure from the chamber pressures (metered return line)."""
         if self.lay.hold_driven and isinstance(self.hold, CounterbalanceValve):
-            x = p_o + self.hold.pilot_ratio * p_d - self.hold.setting - self.hold.gradient * q_out
-            return np.minimum(x, p_o)
+            return self.hold.outlet_pressure(q_out, p_o, p_d)
         if self.lay.hold_driven:
             return p_o - self.hold.setting - self.hold.gradient * q_out
         return p_o
@@ -470,6 +496,8 @@ def solve(axis: Axis, load, temperature, direction: str | None = None, opening: 
     if direction not in DIRECTIONS:
         raise InputError("direction", repr(direction), "one of 'extend', 'retract'")
     opening = check_opening(opening)
+    if getattr(axis.flow_valve, "closed", False):
+        opening = 0.0                 # a shut restrictor (needle on its seat) is a closed valve
     f_ext, temp = _broadcast_inputs(axis, load, temperature)
     shape = f_ext.shape
     rho = np.asarray(axis.oil.density(temp), dtype=float) * np.ones(shape)
@@ -495,7 +523,7 @@ def solve(axis: Axis, load, temperature, direction: str | None = None, opening: 
 
         def resid(v):
             _, _, p_pump = state_s(v)
-            return a_d * v + m.q_bleed(p_pump - pt) + relief.flow(p_pump) - qp
+            return a_d * v + m.q_bleed(p_pump - pt) + m.relief_flow(p_pump) - qp
 
         v = solve_increasing(resid, lo, hi, xtol, ftol)
     elif lay.kind == "meter-in":
@@ -503,7 +531,7 @@ def solve(axis: Axis, load, temperature, direction: str | None = None, opening: 
             q_in, q_out = a_d * v, a_o * v
             p_d, _ = m.chambers_from_return(q_out, m.p_mid_return(q_out), f_res)
             p_down = np.maximum(p_d, pcav) + m.dp_supply(q_in)
-            return q_in - m.fv_forward(relief.pressure(qp - q_in) - p_down)
+            return q_in - m.fv_forward(m.relief_pressure(qp - q_in) - p_down)
 
         f_top = resid(hi)
         branch = np.where(f_top <= 0.0, 1, 0).astype(np.int8)
@@ -515,7 +543,7 @@ def solve(axis: Axis, load, temperature, direction: str | None = None, opening: 
         def resid(v, cav=None):
             cav = cavmask if cav is None else cav
             q_in, q_out = a_d * v, a_o * v
-            p_d = np.where(cav, pcav, relief.pressure(qp - q_in) - m.dp_supply(q_in))
+            p_d = np.where(cav, pcav, m.relief_pressure(qp - q_in) - m.dp_supply(q_in))
             p_o = (p_d * a_d - f_res) / a_o
             p_m = m.mid_from_chambers(q_out, p_d, p_o)
             return q_out - m.fv_forward(p_m - pt)
@@ -542,7 +570,201 @@ def solve(axis: Axis, load, temperature, direction: str | None = None, opening: 
 
     v = np.clip(v, 0.0, None)
     demand = p_d_top if lay.kind == "meter-out" else None
-    return _assemble(axis, m, lay, direction, opening, f_ext, temp, v, branch, rho, mu, demand)
+    sol = _assemble(axis, m, lay, direction, opening, f_ext, temp, v, branch, rho, mu, demand)
+    still = ~(v > 0.0)
+    if np.any(still):
+        sol = _standstill_motion(axis, m, lay, sol, still, f_ext)
+    return sol
+
+
+def _fields(sol: Solution) -> dict:
+    return {f.name: getattr(sol, f.name) for f in fields(sol)}
+
+
+def _overlay(sol: Solution, mask, state: Mapping, regime: str) -> Solution:
+    """``sol`` with the points of ``mask`` replaced by ``state`` (arrays) and ``regime``."""
+    out = _fields(sol)
+    for key, val in state.items():
+        out[key] = np.where(mask, np.broadcast_to(val, mask.shape), out[key])
+    reg = np.array(out["regime"], copy=True)
+    reg[mask] = regime
+    out["regime"] = reg
+    return Solution(**out)
+
+
+def _standstill_motion(axis: Axis, m: _Model, lay: _Layout, sol: Solution, still, f_ext) -> Solution:
+    """Where the solved speed is 0, test whether the piston really stands: the load may drive
+    it back over the relief (:func:`_driven_back`), or, with a closed meter-in valve, open the
+    holding valve behind the trapped chamber and sink (:func:`_sinking`)."""
+    back, st = _driven_back(axis, m, lay, f_ext)
+    back = back & still
+    if back.any():
+        sol = _overlay(sol, back, st, DRIVEN_BACK)
+    if lay.kind == "meter-in" and sol.opening == 0.0 and lay.hold_driven:
+        sink, st = _sinking(axis, m, lay, f_ext)
+        sink = sink & still & ~back
+        if sink.any():
+            sol = _overlay(sol, sink, st, SINKING)
+    return sol
+
+
+def _chambers(lay: _Layout, p_d, p_o):
+    return (p_d, p_o) if lay.driving == "cap" else (p_o, p_d)
+
+
+def _driven_back(axis: Axis, m: _Model, lay: _Layout, f_ext):
+    """The load drives the piston against the commanded direction (back speed u > 0).
+
+    Force balance with friction now opposing the backward motion (so helping the supply)::
+
+        p_d A_d - p_o A_o = s F - F_fr
+
+    The driving chamber's outflow ``Q = A_d u`` joins the pump flow over the relief (and the
+    bleed valve, bleed-off): ``relief(p_line) + bleed(p_line) = Q_pump + Q``; on its way it
+    crosses, in this order from the line, the flow valve (its reverse check when it meters
+    in, its metering part when it is the reverse check of the other motion) and the holding
+    valve on that chamber (forward: ``inlet_pressure`` with its pilot on the other chamber).
+    The other chamber refills ``A_o u`` from the tank port (``p_t``) through the flow valve
+    and the holding valve's check; it is clamped at the cavitation limit (its demand kept).
+    Solved for the line pressure by the same bracketing as the motion. Returns
+    ``(mask, state)``: where the load drives the axis back, and the state everywhere.
+    """
+    a_d, a_o, pt, qp = lay.a_d, lay.a_o, m.pt, m.qp
+    shape = np.shape(f_ext)
+    rho, mu, fv, hold, o = m.rho, m.mu, m.fv, m.hold, m.o
+    f_back = lay.s * np.asarray(f_ext, dtype=float) - axis.friction
+
+    def flow_valve_fwd_drop(q):
+        with np.errstate(over="ignore", invalid="ignore"):
+            return fv.pressure_drop(q, rho, mu, o)
+
+    def state(p_line):
+        q_r = m.relief_flow(p_line)
+        q_b = m.q_bleed(p_line - pt)
+        big_q = np.maximum(q_r + q_b - qp, 0.0)
+        u = big_q / a_d
+        q_o = a_o * u
+        z = np.zeros(shape)
+        if lay.kind == "meter-out":
+            fv_o = _check_drop(fv.check, q_o)               # refill back through its check
+        elif lay.fv_check_return:
+            fv_o = flow_valve_fwd_drop(q_o)                  # refill forward through its metering part
+        else:
+            fv_o = z
+        p_mid_o = pt - fv_o
+        h_o = _check_drop(hold.check, q_o) if lay.hold_driven else z
+        p_o_dem = p_mid_o - h_o
+        p_o = np.maximum(p_o_dem, m.pcav)
+        if lay.kind == "meter-in":
+            fv_d = _check_drop(fv.check, big_q)              # back to the line through its check
+        elif lay.fv_check_supply:
+            fv_d = flow_valve_fwd_drop(big_q)
+        else:
+            fv_d = z
+        p_out_h = p_line + fv_d
+        if lay.hold_driving and isinstance(hold, CounterbalanceValve):
+            p_d = hold.inlet_pressure(big_q, p_o, p_out_h)
+        elif lay.hold_driving:
+            p_d = hold.inlet_pressure(big_q, p_out_h)
+        else:
+            p_d = p_out_h
+        return dict(u=u, q=big_q, q_o=q_o, q_r=q_r, q_b=q_b, fv_o=fv_o, fv_d=fv_d, p_mid_o=p_mid_o, p_o=p_o,
+                    p_o_dem=p_o_dem, p_out_h=p_out_h, p_d=p_d)
+
+    def resid(p_line):
+        st = state(p_line)
+        with np.errstate(invalid="ignore"):
+            r = st["p_d"] * a_d - st["p_o"] * a_o - f_back
+        return np.where(np.isnan(r), np.inf, r)
+
+    # line pressure with no flow back: pump flow alone over relief (and bleed valve)
+    p_full = np.full(shape, m.relief_pressure(qp))
+    p0 = solve_increasing(lambda p: m.relief_flow(p) + m.q_bleed(p - pt) - qp, np.zeros(shape), p_full,
+                          1e-9, 1e-13 * qp)
+    r0 = resid(p0)
+    p_hi = np.maximum(p0, (f_back + pt * a_o) / a_d) + 1e5
+    r_hi = resid(p_hi)
+    mask = (r0 < -1e-9 * (np.abs(f_back) + p0 * a_d + 1.0)) & np.isfinite(r_hi)
+    if not mask.any():
+        return mask, {}
+    p_line = solve_increasing(resid, p0, np.where(mask, p_hi, p0), 1e-10 * (np.abs(p_hi) + 1.0), 1e-9)
+    st = state(p_line)
+    u, big_q, q_o = st["u"], st["q"], st["q_o"]
+    p_d, p_o = st["p_d"], st["p_o"]
+    v = -u
+    if lay.kind == "meter-in":
+        q_fv, dp_fv = -big_q, -st["fv_d"]
+    elif lay.fv_check_supply:
+        q_fv, dp_fv = big_q, st["fv_d"]
+    elif lay.kind == "meter-out":
+        q_fv, dp_fv = -q_o, -st["fv_o"]
+    elif lay.fv_check_return:
+        q_fv, dp_fv = q_o, st["fv_o"]
+    elif lay.kind == "bleed-off":
+        q_fv, dp_fv = st["q_b"], p_line - pt
+    else:
+        q_fv, dp_fv = np.zeros(shape), np.zeros(shape)
+    if lay.hold_driving:
+        q_h, dp_h, p_mid = big_q, p_d - st["p_out_h"], st["p_out_h"]
+    elif lay.hold_driven:
+        q_h, dp_h, p_mid = -q_o, -(st["p_mid_o"] - st["p_o_dem"]), st["p_mid_o"]
+    else:
+        q_h, dp_h, p_mid = np.zeros(shape), np.zeros(shape), st["p_mid_o"]
+    p_pilot = p_o if (lay.hold_driving and isinstance(hold, CounterbalanceValve)) else np.zeros(shape)
+    p1, p3 = _chambers(lay, p_d, p_o)
+    p1_dem, p3_dem = _chambers(lay, p_d, st["p_o_dem"])
+    fr = -axis.friction + np.zeros(shape)
+    useful = lay.s * np.asarray(f_ext, dtype=float) * v
+    q_relief = st["q_r"]
+    out = dict(speed=v, p1=p1, p3=p3, p_pump=p_line, p_mid=np.maximum(p_mid, m.pcav), p_pilot=p_pilot,
+               q_relief=q_relief, q_bleed=st["q_b"], q_cylinder_in=-big_q, q_cylinder_out=-q_o,
+               q_void=np.zeros(shape), q_flow_valve=q_fv, dp_flow_valve=dp_fv, q_holding=q_h, dp_holding=dp_h,
+               friction_force=fr, unbalanced_force=np.zeros(shape), p1_demand=p1_dem, p3_demand=p3_dem,
+               useful_power=useful, friction_power=fr * v, input_power=p_line * qp,
+               loss_flow_valve=np.abs(dp_fv * q_fv), loss_holding=np.abs(dp_h * q_h),
+               loss_relief=(p_line - pt) * q_relief, loss_return_line=pt * (q_relief + st["q_b"] - q_o),
+               efficiency=np.zeros(shape))
+    return mask, out
+
+
+def _sinking(axis: Axis, m: _Model, lay: _Layout, f_ext):
+    """A closed meter-in valve shuts the driving chamber; the holding chamber is trapped by
+    its holding valve. Where the load pressure is above the valve's opening pressure the
+    valve opens and the load sinks in the commanded (lowering) direction, the driving
+    chamber voiding at the cavitation limit::
+
+        p_o = (p_cav A_d - (s F + F_fr)) / A_o          force balance, moving
+        Q   = holding valve flow at (p_o, pilot p_cav, outlet p_t),  v = Q / A_o
+
+    Returns ``(mask, state)``.
+    """
+    a_d, a_o, pt, qp, pcav = lay.a_d, lay.a_o, m.pt, m.qp, m.pcav
+    shape = np.shape(f_ext)
+    hold = m.hold
+    f_res = lay.s * np.asarray(f_ext, dtype=float) + axis.friction
+    p_o = (pcav * a_d - f_res) / a_o
+    p_out = m.p_mid_return(np.zeros(shape))
+    if isinstance(hold, CounterbalanceValve):
+        q = np.maximum(hold.flow(p_o, pcav, p_out), 0.0)
+    else:
+        q = np.maximum(hold.flow(p_o, p_out), 0.0)
+    mask = q > 1e-12 * qp
+    v = q / a_o
+    p_d = np.full(shape, pcav)
+    p_pump = np.full(shape, m.relief_pressure(qp))
+    p1, p3 = _chambers(lay, p_d, p_o)
+    useful = lay.s * np.asarray(f_ext, dtype=float) * v
+    dp_h = p_o - p_out
+    out = dict(speed=v, p1=p1, p3=p3, p_pump=p_pump, p_mid=p_out,
+               p_pilot=p_d if isinstance(hold, CounterbalanceValve) else np.zeros(shape),
+               q_relief=np.full(shape, qp), q_bleed=np.zeros(shape), q_cylinder_in=np.zeros(shape),
+               q_cylinder_out=q, q_void=a_d * v, q_flow_valve=np.zeros(shape), dp_flow_valve=p_pump - p_d,
+               q_holding=q, dp_holding=dp_h, friction_force=np.full(shape, axis.friction),
+               unbalanced_force=np.zeros(shape), p1_demand=p1, p3_demand=p3, useful_power=useful,
+               friction_power=axis.friction * v, input_power=p_pump * qp, loss_flow_valve=np.zeros(shape),
+               loss_holding=dp_h * q, loss_relief=(p_pump - pt) * qp, loss_return_line=pt * (q + qp),
+               efficiency=np.zeros(shape))
+    return mask, out
 
 
 def _assemble(axis, m: _Model, lay: _Layout, direction, opening, f_ext, temp, v, branch, rho, mu,
@@ -566,8 +788,8 @@ def _assemble(axis, m: _Model, lay: _Layout, direction, opening, f_ext, temp, v,
         # standstill: the pump line sits where bleed and relief take the whole pump flow
         if np.any(~moving):
             def rp(p):
-                return m.q_bleed(p - pt) + relief.flow(p) - qp
-            p_stall = solve_increasing(rp, np.zeros(shape), np.full(shape, relief.pressure(qp)),
+                return m.q_bleed(p - pt) + m.relief_flow(p) - qp
+            p_stall = solve_increasing(rp, np.zeros(shape), np.full(shape, m.relief_pressure(qp)),
                                        1e-9, 1e-13 * qp)
             p_pump = np.where(moving, p_pump, p_stall)
             p_d, p_o = _standstill(m, lay, moving, p_stall, p_d, p_o, p_m, f_res, True, False)
@@ -579,19 +801,19 @@ def _assemble(axis, m: _Model, lay: _Layout, direction, opening, f_ext, temp, v,
         p_m = m.p_mid_return(q_out)
         p_d, p_o = m.chambers_from_return(q_out, p_m, f_res)
         p_down = np.maximum(p_d, pcav) + m.dp_supply(q_in_swept)
-        p_pump = relief.pressure(qp - q_in_swept)
+        p_pump = m.relief_pressure(qp - q_in_swept)
         with np.errstate(over="ignore", invalid="ignore"):
             dp_rc = fv.pressure_drop(q_in_swept, rho, mu, opening)
         p_pump = np.where(branch == 1, p_down + np.where(np.isfinite(dp_rc), dp_rc, 0.0), p_pump)
         if np.any(~moving):
-            p_full = np.full(shape, relief.pressure(qp))
+            p_full = np.full(shape, m.relief_pressure(qp))
             p_pump = np.where(moving, p_pump, p_full)
             p_d, p_o = _standstill(m, lay, moving, p_full, p_d, p_o, p_m, f_res, opening > 0.0, False)
         q_in = q_in_swept
         q_relief = np.maximum(qp - q_in, 0.0)
         p_mid = p_m
     else:  # meter-out
-        p_d = np.where(branch == 2, pcav, relief.pressure(qp - q_in_swept) - m.dp_supply(q_in_swept))
+        p_d = np.where(branch == 2, pcav, m.relief_pressure(qp - q_in_swept) - m.dp_supply(q_in_swept))
         p_o = (p_d * a_d - f_res) / a_o
         p_m = m.mid_from_chambers(q_out, p_d, p_o)
         if np.any(branch == 1):
@@ -602,14 +824,19 @@ def _assemble(axis, m: _Model, lay: _Layout, direction, opening, f_ext, temp, v,
             sel = branch == 1
             p_d, p_o, p_m = np.where(sel, p_d_rc, p_d), np.where(sel, p_o_rc, p_o), np.where(sel, p_m_rc, p_m)
         if np.any(~moving):
-            p_full = np.full(shape, relief.pressure(qp))
+            p_full = np.full(shape, m.relief_pressure(qp))
             refill = pt - (_check_drop(fv.check, np.zeros(shape)) if fv.check is not None else 0.0)
             p_d, p_o = _standstill(m, lay, moving, p_full, p_d, p_o, refill, f_res, True, opening == 0.0)
             p_m = np.where(moving, p_m, m.mid_from_chambers(q_out, p_d, p_o) if lay.hold_driven else p_o)
-        p_pump = np.where(branch == 2, pcav + m.dp_supply(np.full(shape, qp)), p_d + m.dp_supply(q_in_swept))
-        p_pump = np.where(moving, p_pump, relief.pressure(qp))
-        q_in = np.where(branch == 2, qp, q_in_swept)
-        q_void = np.where(branch == 2, np.maximum(q_in_swept - qp, 0.0), 0.0)
+        # cavitating: the pump fills the voiding chamber through the supply-path checks; where
+        # their drop at the whole pump flow would lift the pump above the relief, the relief
+        # opens and takes the rest (the pump never exceeds what its relief allows)
+        q_fill = _fill_flow(m, shape) if np.any(branch == 2) else np.full(shape, qp)
+        p_pump = np.where(branch == 2, np.minimum(pcav + m.dp_supply(q_fill), m.relief_pressure(qp - q_fill)),
+                          p_d + m.dp_supply(q_in_swept))
+        p_pump = np.where(moving, p_pump, m.relief_pressure(qp))
+        q_in = np.where(branch == 2, q_fill, q_in_swept)
+        q_void = np.where(branch == 2, np.maximum(q_in_swept - q_fill, 0.0), 0.0)
         q_relief = np.maximum(qp - q_in, 0.0)
         p_mid = p_m
 
@@ -653,8 +880,8 @@ def _assemble(axis, m: _Model, lay: _Layout, direction, opening, f_ext, temp, v,
     input_p = p_pump * qp
     loss_fv = np.abs(dp_fv * q_fv)
     loss_h = np.abs(dp_h * q_h)
-    loss_r = p_pump * q_relief
-    loss_ret = pt * (q_out + q_bleed)
+    loss_r = (p_pump - pt) * q_relief            # the relief drains to the tank port at p_t
+    loss_ret = pt * (q_out + q_bleed + q_relief)
     with np.errstate(divide="ignore", invalid="ignore"):
         eff = np.where(input_p > 0.0, np.maximum(useful, 0.0) / np.where(input_p > 0.0, input_p, 1.0), 0.0)
 
@@ -667,6 +894,20 @@ def _assemble(axis, m: _Model, lay: _Layout, direction, opening, f_ext, temp, v,
                     unbalanced_force=unbalanced, p1_demand=p1_dem, p3_demand=p3_dem, useful_power=useful,
                     friction_power=fric_p, input_power=input_p, loss_flow_valve=loss_fv, loss_holding=loss_h,
                     loss_relief=loss_r, loss_return_line=loss_ret, efficiency=eff, regime=regime)
+
+
+def _fill_flow(m: _Model, shape):
+    """Flow, m³/s, the pump sends into a driving chamber held at the cavitation limit: all of
+    it while ``p_cav + dp_supply(Q_pump)`` stays at or below the relief's cracking pressure,
+    otherwise the root of ``p_cav + dp_supply(q) = relief_pressure(Q_pump - q)``."""
+    qp = m.qp
+    full = np.full(shape, qp)
+
+    def g(q):
+        return m.pcav + m.dp_supply(q) - m.relief_pressure(qp - q)
+
+    q = solve_increasing(g, np.zeros(shape), full, 1e-13 * qp, 1e-9)
+    return np.where(g(full) <= 0.0, full, q)
 
 
 def _standstill(m: _Model, lay: _Layout, moving, p_source, p_d, p_o, p_ret, f_res, driving_open: bool,
@@ -717,7 +958,7 @@ def _regimes(axis, m, lay, opening, v, branch, p_d_dem, p_o_dem, q_relief, dp_fv
     out[moving & (p_d_dem < pcav) & (branch != 2)] = RUNAWAY
     out[moving & (branch == 2)] = CAVITATING
     if lay.hold_driven and isinstance(axis.holding, CounterbalanceValve):
-        closed_hold = (p_o - p_mid) + axis.holding.pilot_ratio * np.maximum(p_d_dem, pcav) < axis.holding.setting
+        closed_hold = p_o < axis.holding.opening_pressure(np.maximum(p_d_dem, pcav), p_mid)
     elif lay.hold_driven:
         closed_hold = (p_o - p_mid) < axis.holding.setting
     else:
@@ -732,6 +973,14 @@ def _regimes(axis, m, lay, opening, v, branch, p_d_dem, p_o_dem, q_relief, dp_fv
 
 
 # --------------------------------------------------------------------------- building
+def _counterbalance_from_values(hold: Mapping, pilot_ratio: float) -> CounterbalanceValve:
+    """The counterbalance of the ``holding`` section (spring chamber and fully-open drop
+    with their defaults)."""
+    return CounterbalanceValve(hold["setting"], pilot_ratio, hold["gradient"], _holding_check(hold),
+                               spring_chamber=hold.get("spring_chamber") or "outlet-referenced",
+                               open_gradient=hold.get("open_gradient") or CB_OPEN_GRADIENT_DEFAULT)
+
+
 def _holding_check(hold: Mapping) -> CheckValve:
     """The holding valve's free-flow check from the ``holding`` section."""
     return CheckValve(hold.get("check_cracking", _BAR), hold.get("check_gradient") or CHECK_GRADIENT_DEFAULT)
@@ -747,7 +996,8 @@ def _flow_valve_from_values(fv: Mapping, oil: Oil):
     if kind == "throttle":
         return RestrictorValve(LongThrottle(fv["diameter"], fv["length"]), check, kind="throttle")
     if kind == "needle":
-        return RestrictorValve(NeedleThrottle.from_turns(fv["seat_diameter"], fv["half_angle"], fv["turns"],
+        # the catalogue's "turns" is an angle, stored in SI (rad)
+        return RestrictorValve(NeedleThrottle.from_angle(fv["seat_diameter"], fv["half_angle"], fv["turns"],
                                                          fv["pitch"], cd=cd), check, kind="needle")
     if kind == "compensated":
         rho40 = float(oil.density(313.15))
@@ -791,6 +1041,8 @@ _QUALIFIED = {
     "half_angle": "flow_valve.half_angle", "pitch": "flow_valve.pitch", "arrangement": "flow_valve.arrangement",
     "direction": "flow_valve.direction",
     "pilot_ratio": "holding.pilot_ratio", "gradient": "holding.gradient", "side": "holding.side",
+    "spring_chamber": "holding.spring_chamber", "open_gradient": "holding.open_gradient",
+    "overall_efficiency": "supply.overall_efficiency",
     "friction": "operation.friction", "tank_pressure": "operation.tank_pressure", "loads": "operation.loads",
     "temp_min": "operation.temp_min", "temp_max": "operation.temp_max",
     "cavitation_abs": "limits.cavitation_abs",
@@ -855,7 +1107,7 @@ def _axis_from_values(values: Mapping[str, Mapping]) -> Axis:
         r = hold.get("pilot_ratio")
         if r is None or not r > 0:
             raise InputError("pilot_ratio", r, "a pilot ratio greater than 0 (for example 3 for 3:1)")
-        holding = CounterbalanceValve(hold["setting"], r, hold["gradient"], _holding_check(hold))
+        holding = _counterbalance_from_values(hold, r)
     elif kind == "back-pressure":
         holding = BackPressureValve(hold["setting"], hold["gradient"], _holding_check(hold))
     elif kind != "none":
@@ -876,4 +1128,4 @@ def _axis_from_values(values: Mapping[str, Mapping]) -> Axis:
 
 __all__ = ["Axis", "Ratings", "Solution", "solve", "axis_from_values", "design_loads", "G_STANDARD", "solve_increasing", "REGIMES",
            "ARRANGEMENTS", "DIRECTIONS", "METERING", "STARVED", "PUMP_LIMITED", "RELIEF", "STALLED", "HELD",
-           "CLOSED", "RUNAWAY", "CAVITATING", "CAVITATION_ABS_DEFAULT"]
+           "CLOSED", "RUNAWAY", "CAVITATING", "SINKING", "DRIVEN_BACK", "UNCONTROLLED", "CAVITATION_ABS_DEFAULT"]

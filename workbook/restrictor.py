@@ -812,7 +812,7 @@ class NeedleThrottle:
     = 6.18 L/min; D_h = 0.25882 mm, v = 65.40 m/s, Re = 870 × 65.40 × 2.5882e-4/0.040
     = 368: turbulent.
 
-    >>> n = NeedleThrottle.from_turns(4e-3, math.radians(15), 2 * math.pi, 0.5e-3)
+    >>> n = NeedleThrottle.from_turns(4e-3, math.radians(15), 1.0, 0.5e-3)
     >>> round(n.lift * 1e3, 6), round(float(n.area) * 1e6, 5)
     (0.5, 1.57539)
     >>> r = n.flow(50e5, 870.0, 0.040)
@@ -836,16 +836,28 @@ class NeedleThrottle:
             object.__setattr__(self, name, _stored(val))
 
     @classmethod
-    def from_turns(cls, seat_diameter, half_angle, turns_rad, pitch, cd=0.61, delta=0.2):
-        """Needle opened ``turns_rad`` (rad; one turn = 2π rad, >= 0) on a thread of
-        ``pitch`` (m per turn, > 0): lift = turns_rad/(2π)·pitch.
+    def from_turns(cls, seat_diameter, half_angle, turns, pitch, cd=0.61, delta=0.2):
+        """Needle opened ``turns`` turns (>= 0) on a thread of ``pitch`` (m per turn, > 0):
+        lift = turns·pitch.
 
-        >>> round(NeedleThrottle.from_turns(4e-3, 0.26, 3 * math.pi, 0.5e-3).lift * 1e3, 6)
+        >>> round(NeedleThrottle.from_turns(4e-3, 0.26, 1.5, 0.5e-3).lift * 1e3, 6)
         0.75
         """
-        turns = _array(turns_rad, "turns", "rad", "an opening angle", "nonnegative")
+        turns = _array(turns, "turns", "turn", "an opening in turns", "nonnegative")
         pitch = _array(pitch, "pitch", "m", "a thread pitch", "positive")
-        return cls(seat_diameter, half_angle, _stored(turns / (2.0 * math.pi) * pitch), cd, delta)
+        return cls(seat_diameter, half_angle, _stored(turns * pitch), cd, delta)
+
+    @classmethod
+    def from_angle(cls, seat_diameter, half_angle, angle, pitch, cd=0.61, delta=0.2):
+        """Needle opened by ``angle`` (rad; one turn = 2π rad, >= 0) on a thread of ``pitch``
+        (m per turn, > 0): lift = angle/(2π)·pitch (the SI form of :meth:`from_turns`).
+
+        >>> round(NeedleThrottle.from_angle(4e-3, 0.26, 3 * math.pi, 0.5e-3).lift * 1e3, 6)
+        0.75
+        """
+        angle = _array(angle, "turns", "rad", "an opening angle", "nonnegative")
+        pitch = _array(pitch, "pitch", "m", "a thread pitch", "positive")
+        return cls(seat_diameter, half_angle, _stored(angle / (2.0 * math.pi) * pitch), cd, delta)
 
     @property
     def seat_area(self):

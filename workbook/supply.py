@@ -117,33 +117,85 @@ class ReliefValve:
         """Override gradient, Pa per m³/s."""
         return (self.full_flow - self.cracking) / self.rated_flow
 
-    def flow(self, pressure):
-        """Relief flow, m³/s, at inlet pressure ``pressure`` (Pa gauge, tank at 0)."""
-        p = np.asarray(pressure, dtype=float)
-        return np.maximum(p - self.cracking, 0.0) / self.gradient
+    def flow(self, pressure, p_out=0.0):
+        """Relief flow, m³/s, at inlet pressure ``pressure`` (Pa gauge) with its outlet at
+        ``p_out`` (the tank port's back pressure, Pa): ``max(p - p_out - p_crack, 0)/g``.
 
-    def pressure(self, flow):
-        """Inlet pressure, Pa, while ``flow`` (m³/s, >= 0) crosses the valve.
+        The settings are drops across the valve: a direct-acting relief whose spring chamber
+        drains to its outlet opens at the cracking pressure above its outlet (common practice).
+
+        >>> r = ReliefValve(100e5, 110e5, 1e-3)
+        >>> float(r.flow(105e5, p_out=5e5))
+        0.0
+        """
+        p = np.asarray(pressure, dtype=float)
+        return np.maximum(p - np.asarray(p_out, dtype=float) - self.cracking, 0.0) / self.gradient
+
+    def pressure(self, flow, p_out=0.0):
+        """Inlet pressure, Pa, while ``flow`` (m³/s, >= 0) crosses the valve to an outlet at
+        ``p_out`` (Pa): ``p_out + p_crack + g q``.
 
         At zero flow this returns the cracking pressure (the highest pressure with the
         valve still closed).
+
+        >>> round(float(ReliefValve(100e5, 110e5, 1e-3).pressure(1e-3, p_out=2e5)) / 1e5, 6)
+        112.0
         """
         q = np.maximum(np.asarray(flow, dtype=float), 0.0)
-        return self.cracking + self.gradient * q
+        return np.asarray(p_out, dtype=float) + self.cracking + self.gradient * q
+
+
+#: default overall efficiency of a fixed pump, shaft power to hydraulic power (from memory:
+#: gear and vane pumps about 0.80 to 0.90 near their rated point)
+OVERALL_EFFICIENCY_DEFAULT = 0.85
 
 
 @dataclass(frozen=True)
 class Supply:
-    """Pump, relief valve and installed drive power (W)."""
+    """Pump, relief valve, installed drive power (W), the pump's overall efficiency and its
+    geometric flow (m³/s, displacement × speed; ``None`` = the delivered flow).
+
+    Shaft power from hydraulic power (common practice; any fluid-power handbook)::
+
+        P_shaft = p Q_delivered / eta_total,     eta_total = eta_vol * eta_hydromechanical
+
+    The geometric flow is what the pump draws through its suction line when its leakage
+    goes to a case drain: the conservative figure for the suction line (common practice).
+
+    >>> s = Supply(Pump(0.9e-3), ReliefValve(100e5, 110e5, 0.9e-3), 15e3, 0.8, 1e-3)
+    >>> round(float(s.shaft_power(100e5)))      # 100e5 Pa x 0.9e-3 m³/s = 9 kW, / 0.8
+    11250
+    >>> s.suction_flow
+    0.001
+    """
 
     pump: Pump
     relief: ReliefValve
     drive_power: float = math.inf
+    overall_efficiency: float = OVERALL_EFFICIENCY_DEFAULT
+    geometric_flow: float | None = None
+
+    def __post_init__(self):
+        eta = float(self.overall_efficiency)
+        if not (math.isfinite(eta) and 0.0 < eta <= 1.0):
+            raise InputError("overall_efficiency", self.overall_efficiency, "a fraction greater than 0 and at most 1")
+        if self.geometric_flow is not None:
+            _finite_positive("geometric_flow", self.geometric_flow, "m³/s")
 
     @property
     def flow(self) -> float:
         """Pump flow, m³/s."""
         return self.pump.flow
+
+    @property
+    def suction_flow(self) -> float:
+        """Flow through the suction line, m³/s: the geometric flow (the delivered flow when
+        it is not known)."""
+        return self.pump.flow if self.geometric_flow is None else max(self.geometric_flow, self.pump.flow)
+
+    def shaft_power(self, pressure):
+        """Pump shaft power, W, at pump pressure ``pressure`` (Pa): ``p Q / eta_total``."""
+        return np.asarray(pressure, dtype=float) * self.pump.flow / self.overall_efficiency
 
     def pressure_for_delivery(self, q_out):
         """Pump pressure, Pa, while ``q_out`` (m³/s) of the pump flow leaves to the circuit.
@@ -171,20 +223,25 @@ class Supply:
         workbook.errors.InputError: relief_full_flow: got 140 bar; allowed: a pressure above the relief cracking pressure (150 bar)
         """
         v = dict(values)
+        geometric = None
         if v.get("pump_flow") is not None:
             pump = Pump(v["pump_flow"])
+            eta_v = v.get("volumetric_efficiency") or 1.0
+            geometric = pump.flow / eta_v
         else:
             for key in ("displacement", "shaft_speed"):
                 if v.get(key) is None:
                     raise InputError(key, "nothing", "a value, or give pump_flow directly")
             pump = Pump.from_displacement(v["displacement"], v["shaft_speed"], v.get("volumetric_efficiency", 1.0))
+            geometric = v["displacement"] * v["shaft_speed"]
         for key in ("relief_cracking", "relief_full_flow"):
             if v.get(key) is None:
                 raise InputError(key, "nothing", "a pressure greater than 0 bar")
         relief = ReliefValve(v["relief_cracking"], v["relief_full_flow"], pump.flow)
         drive = v.get("drive_power")
         drive = math.inf if drive is None else _finite_positive("drive_power", drive, "W")
-        return cls(pump, relief, drive)
+        eta = v.get("overall_efficiency")
+        return cls(pump, relief, drive, OVERALL_EFFICIENCY_DEFAULT if eta is None else eta, geometric)
 
 
-__all__ = ["Pump", "ReliefValve", "Supply"]
+__all__ = ["Pump", "ReliefValve", "Supply", "OVERALL_EFFICIENCY_DEFAULT"]

@@ -24,11 +24,12 @@ Models
   drop creeps up); this is the usual direction on data-sheet curves (common practice).
   Below ``dp_min`` the compensator is wide open and the valve is a fixed orifice sized so
   the curve is continuous at ``dp_min``: ``Q = Q_set sqrt(dp / dp_min)`` ("starved").
-* :class:`CounterbalanceValve`: closed until ``(p_in - p_out) + R p_pilot >= p_set``; above
-  that ``Q = ((p_in - p_out) + R p_pilot - p_set) / g``. With the outlet at 0 bar gauge this
-  is the textbook opening condition ``p_load + R p_pilot >= p_set``. The outlet pressure is
-  taken to act against the inlet on the seat (spring chamber vented); once the pilot
-  opens it fully the remaining seat drop is neglected. Reverse free flow through its check.
+* :class:`CounterbalanceValve`: closed until ``p_in >= p_set + k p_out - R p_pilot``; above
+  that ``Q = (p_in - p_set - k p_out + R p_pilot) / g``, at most what it passes held fully
+  open, ``(p_in - p_out) / r``. With the outlet at 0 bar gauge this is the textbook opening
+  condition ``p_load + R p_pilot >= p_set``. ``k = 1 + R`` when the spring chamber drains
+  to the outlet (outlet-referenced), 0 when it is vented to air. Reverse free flow through
+  its check.
 * :class:`BackPressureValve`: direct-acting relief in the return line:
   ``p_in - p_out = p_set + g q`` for ``q > 0``; reverse free flow through its check.
 
@@ -155,9 +156,20 @@ class RestrictorValve:
 
     compensated = False
 
+    @property
+    def closed(self) -> bool:
+        """True when the restrictor itself is shut (a needle screwed onto its seat, lift 0):
+        the valve then acts as at opening 0."""
+        lift = getattr(self.restrictor, "lift", None)
+        return lift is not None and bool(np.all(np.asarray(lift) <= 0.0))
+
+    def _opening(self, opening) -> float:
+        o = check_opening(opening)
+        return 0.0 if self.closed else o
+
     def flow(self, dp, rho, mu, opening: float = 1.0):
         """Flow, m³/s, for a drop ``dp`` (Pa), density ``rho`` (kg/m³), viscosity ``mu`` (Pa s)."""
-        o = check_opening(opening)
+        o = self._opening(opening)
         dp = np.asarray(dp, dtype=float)
         fwd = np.maximum(dp, 0.0)
         q = o * np.asarray(self.restrictor.flow(fwd, rho, mu).flow, dtype=float) if o > 0 else np.zeros(
@@ -173,7 +185,7 @@ class RestrictorValve:
 
     def forward_flow(self, dp, rho, mu, opening: float = 1.0):
         """Forward flow only (negative drops give 0), m³/s."""
-        o = check_opening(opening)
+        o = self._opening(opening)
         shape = np.broadcast(np.asarray(dp), np.asarray(rho), np.asarray(mu)).shape
         if o == 0.0:
             return np.zeros(shape)
@@ -181,8 +193,9 @@ class RestrictorValve:
         return np.broadcast_to(o * np.asarray(self.restrictor.flow(fwd, rho, mu).flow, dtype=float), shape).copy()
 
     def pressure_drop(self, q, rho, mu, opening: float = 1.0):
-        """Drop, Pa, at flow ``q`` (m³/s). Infinite for ``q > 0`` at opening 0 (it cannot pass)."""
-        o = check_opening(opening)
+        """Drop, Pa, at flow ``q`` (m³/s). Infinite for ``q > 0`` at opening 0 or with the
+        restrictor shut (it cannot pass)."""
+        o = self._opening(opening)
         q = np.asarray(q, dtype=float)
         shape = np.broadcast(q, np.asarray(rho), np.asarray(mu)).shape
         qf = np.maximum(q, 0.0)
@@ -305,6 +318,13 @@ class CompensatedFlowValve:
 
 
 # --------------------------------------------------------------------------- counterbalance
+#: spring-chamber references of a counterbalance valve (see :class:`CounterbalanceValve`)
+SPRING_CHAMBERS = ("outlet-referenced", "vented")
+#: default drop of a counterbalance held fully open by its pilot, Pa per m³/s: 0.2 bar per
+#: L/min (a small cartridge piloted fully open drops about 3 to 6 bar at 20 L/min; from memory)
+CB_OPEN_GRADIENT_DEFAULT = 0.2 * _BAR / _LPM
+
+
 @dataclass(frozen=True)
 class CounterbalanceValve:
     """Pilot-assisted load-holding valve.
@@ -319,14 +339,46 @@ class CounterbalanceValve:
         g, rise of the opening pressure per flow, Pa per m³/s (> 0).
     check : CheckValve
         Reverse free-flow check.
+    spring_chamber : {"outlet-referenced", "vented"}
+        Where the spring chamber drains. Force balance on the poppet (seat area A_s, pilot
+        area R A_s, spring force p_set A_s; the outlet pressure acts on the seat annulus and,
+        when the spring chamber drains to the outlet, on the back of the poppet and of the
+        pilot piston)::
 
-    ``Q = max((p_in - p_out) + R p_pilot - p_set, 0) / g`` for ``p_in > p_out``.
+            outlet-referenced:  (p_in - p_out) + R (p_pilot - p_out) >= p_set
+            vented (to air):     p_in + R p_pilot >= p_set
+
+        i.e. the opening pressure ``p_set + k p_out - R p_pilot`` with ``k = 1 + R``
+        (outlet-referenced) or ``k = 0`` (vented): a valve draining to its outlet has the
+        outlet pressure added to its setting and taken off its pilot, roughly (1 + R) p_out
+        (common practice for the usual cartridge whose spring chamber drains to the valve
+        port; from memory).
+    open_gradient : float
+        r, drop of the valve held fully open by its pilot, Pa per m³/s (> 0): a fully open
+        restriction, ``p_in - p_out = r q`` (:data:`CB_OPEN_GRADIENT_DEFAULT`).
+
+    Forward flow: ``Q = min(max(p_in - p_open, 0) / g, max(p_in - p_out, 0) / r)`` with
+    ``p_open = p_set + k p_out - R p_pilot``; the inverse is
+    ``p_in = max(p_open + g Q, p_out + r Q)``.
+
+    Worked example (by hand), outlet at 0: 40 + 3*32 - 130 = 6 bar over the opening point
+    at 0.5 bar per L/min -> 12 L/min; fully open it would pass 40 bar / 0.2 = 200 L/min, so
+    the metering term rules:
 
     >>> cb = CounterbalanceValve(130e5, 3.0, 0.5e5 / (1 / 60000))
-    >>> round(float(cb.flow(40e5, 32e5)) * 60000, 6)       # 40 + 3*32 - 130 = 6 bar -> 12 L/min
+    >>> round(float(cb.flow(40e5, 32e5)) * 60000, 6)
     12.0
     >>> float(cb.flow(40e5, 25e5))                           # 40 + 75 < 130: closed
     0.0
+    >>> # outlet at 10 bar: outlet-referenced opens at 130 + 4*10 - 96 = 74 bar; vented at 34 bar
+    >>> round(float(cb.opening_pressure(32e5, 10e5)) / 1e5, 6)
+    74.0
+    >>> vented = CounterbalanceValve(130e5, 3.0, 0.5e5 / (1 / 60000), spring_chamber="vented")
+    >>> round(float(vented.opening_pressure(32e5, 10e5)) / 1e5, 6)
+    34.0
+    >>> # piloted wide open (pilot 60 bar): 10 L/min crosses it with 0.2 bar per L/min = 2 bar
+    >>> round(float(cb.inlet_pressure(10 / 60000, 60e5, 0.0)) / 1e5, 6)
+    2.0
     """
 
     setting: float
@@ -334,34 +386,61 @@ class CounterbalanceValve:
     gradient: float
     check: CheckValve | None = field(default_factory=lambda: CheckValve(1.0 * _BAR))
     kind: str = "counterbalance"
+    spring_chamber: str = "outlet-referenced"
+    open_gradient: float = CB_OPEN_GRADIENT_DEFAULT
 
     def __post_init__(self):
         _num("setting", self.setting, "a pressure greater than 0 bar", low_open=True)
         _num("pilot_ratio", self.pilot_ratio, "a pilot ratio greater than 0 (for example 3 for 3:1)", low_open=True)
         _num("gradient", self.gradient, "a gradient greater than 0 Pa per m³/s", low_open=True)
+        _num("open_gradient", self.open_gradient, "a gradient greater than 0 Pa per m³/s", low_open=True)
+        if self.spring_chamber not in SPRING_CHAMBERS:
+            raise InputError("spring_chamber", repr(self.spring_chamber), "one of " + ", ".join(SPRING_CHAMBERS))
+
+    @property
+    def outlet_factor(self) -> float:
+        """k, the weight of the outlet pressure in the opening pressure: 1 + R or 0."""
+        return 1.0 + self.pilot_ratio if self.spring_chamber == "outlet-referenced" else 0.0
 
     def opening_pressure(self, p_pilot, p_out=0.0):
-        """Inlet pressure, Pa, at which the valve just opens: ``p_out + p_set - R p_pilot``."""
-        return np.asarray(p_out, dtype=float) + self.setting - self.pilot_ratio * np.asarray(p_pilot, dtype=float)
+        """Inlet pressure, Pa, at which the valve just opens: ``p_set + k p_out - R p_pilot``."""
+        return (self.setting + self.outlet_factor * np.asarray(p_out, dtype=float)
+                - self.pilot_ratio * np.asarray(p_pilot, dtype=float))
 
     def flow(self, p_in, p_pilot, p_out=0.0):
         """Flow, m³/s, from the load port (``p_in``) to the outlet (``p_out``); negative = reverse."""
         p_in = np.asarray(p_in, dtype=float)
         p_out = np.asarray(p_out, dtype=float)
-        x = np.maximum((p_in - p_out) + self.pilot_ratio * np.asarray(p_pilot, dtype=float) - self.setting, 0.0)
-        fwd = np.where(p_in > p_out, x / self.gradient, 0.0)
+        meter = np.maximum(p_in - self.opening_pressure(p_pilot, p_out), 0.0) / self.gradient
+        wide = np.maximum(p_in - p_out, 0.0) / self.open_gradient
+        fwd = np.minimum(meter, wide)
         rev = -self.check.flow(p_out - p_in) if self.check is not None else np.zeros_like(fwd)
         return np.where(p_in >= p_out, fwd, rev)
 
     def inlet_pressure(self, q, p_pilot, p_out=0.0):
-        """Inlet pressure, Pa, that passes forward flow ``q`` (m³/s, >= 0) with pilot ``p_pilot``.
-
-        ``max(p_out + p_set - R p_pilot + g q, p_out)``: once the pilot alone holds the
-        valve fully open its remaining drop is neglected.
-        """
+        """Inlet pressure, Pa, that passes forward flow ``q`` (m³/s, >= 0) with pilot ``p_pilot``:
+        ``max(p_open + g q, p_out + r q)`` (metering, or held fully open by the pilot)."""
         q = np.maximum(np.asarray(q, dtype=float), 0.0)
         p_out = np.asarray(p_out, dtype=float)
-        return np.maximum(self.opening_pressure(p_pilot, p_out) + self.gradient * q, p_out)
+        return np.maximum(self.opening_pressure(p_pilot, p_out) + self.gradient * q, p_out + self.open_gradient * q)
+
+    def outlet_pressure(self, q, p_in, p_pilot):
+        """Highest outlet pressure, Pa, at which forward flow ``q`` (m³/s, >= 0) still passes
+        from inlet ``p_in`` with pilot ``p_pilot``: the inverse of :meth:`inlet_pressure` in
+        ``p_out``, ``min((p_in - p_set + R p_pilot - g q)/k, p_in - r q)``.
+
+        A vented valve (k = 0) cannot be helped by a lower outlet: where its metering term
+        cannot pass ``q`` at all the result falls steeply (1000 Pa per Pa short), which keeps
+        it finite and decreasing for the solver.
+        """
+        q = np.maximum(np.asarray(q, dtype=float), 0.0)
+        p_in = np.asarray(p_in, dtype=float)
+        wide = p_in - self.open_gradient * q
+        short = self.setting - self.pilot_ratio * np.asarray(p_pilot, dtype=float) + self.gradient * q - p_in
+        k = self.outlet_factor
+        if k > 0.0:
+            return np.minimum(-short / k, wide)
+        return wide - 1e3 * np.maximum(short, 0.0)
 
 
 # --------------------------------------------------------------------------- back pressure
@@ -401,4 +480,4 @@ class BackPressureValve:
 
 
 __all__ = ["CheckValve", "RestrictorValve", "CompensatedFlowValve", "CounterbalanceValve", "BackPressureValve",
-           "CHECK_GRADIENT_DEFAULT", "DROOP_SPAN", "check_opening"]
+           "CHECK_GRADIENT_DEFAULT", "DROOP_SPAN", "check_opening", "SPRING_CHAMBERS", "CB_OPEN_GRADIENT_DEFAULT"]
