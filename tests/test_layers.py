@@ -17,7 +17,7 @@ RANK = {
     "checks": 4,
     "record": 5,
     "studies": 6,
-    "design": 7, "review": 7,
+    "design": 7, "review": 7, "design_edit": 7,
     "ui": 8,
     "tools": 9,
     "cli": 9, "__main__": 9,

@@ -62,7 +62,7 @@ try:
 except ModuleNotFoundError:  # Python 3.10
     import tomli as tomllib
 
-from . import __version__, units
+from . import __version__, safetext, units
 from .errors import InputError
 from .fields import Field, Section
 from .inputs import AXIS_SECTIONS, IDENTITY
@@ -73,6 +73,12 @@ _MACHINE_RENAME = {"machine": "name"}
 TOP_LEVEL = ("machine", "defaults", "axes")
 _BARE_NUMBER = re.compile(r"^\s*[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?\s*$")
 _BARE_KEY = re.compile(r"^[A-Za-z0-9_-]+$")
+#: an axis key becomes part of a file name: letters, digits, "-" and "_", at most 64
+SAFE_AXIS_KEY = re.compile(r"^[A-Za-z0-9][A-Za-z0-9_-]{0,63}$")
+SAFE_AXIS_WORDS = ("a plain name of letters, digits, '-' and '_' (at most 64 characters, starting with a "
+                   "letter or digit), e.g. [axes.lift]; it becomes part of the record's file name")
+#: a design file's stem also becomes part of a file name (dots allowed inside)
+SAFE_STEM = re.compile(r"^[A-Za-z0-9][A-Za-z0-9._-]{0,99}$")
 
 
 class DesignFileError(InputError):
@@ -236,9 +242,14 @@ class Design:
 class _Parser:
     def __init__(self, text: str, name: str):
         self.name = name
-        self.lines = key_lines(text)
+        if text.startswith("\ufeff"):  # a byte-order mark some editors write: not part of the TOML
+            text = text[1:]
         try:
+            self.lines = key_lines(text)
             self.data = tomllib.loads(text)
+        except RecursionError:
+            raise DesignFileError.at(name, None, "", "values nested too deeply to read",
+                                     "TOML text whose arrays and inline tables nest a few levels at most") from None
         except tomllib.TOMLDecodeError as exc:
             msg = str(exc)
             m = re.search(r"line (\d+)", msg)
@@ -284,6 +295,8 @@ class _Parser:
             self.fail(("axes",), "an empty [axes] table", "at least one [axes.<key>] table, e.g. [axes.lift]")
         axes = {}
         for axis_key, spec in axes_in.items():
+            if not SAFE_AXIS_KEY.match(axis_key):
+                self.fail(("axes", axis_key), f"the axis key {axis_key!r}", SAFE_AXIS_WORDS)
             axes[axis_key] = self.axis(axis_key, spec, defaults)
         return Design(machine, axes, self.name, self.lines)
 
@@ -307,6 +320,10 @@ class _Parser:
         title = spec.get("title", axis_key)
         if not isinstance(title, str):
             self.fail(parts + ("title",), f"{_describe(title)}", "text")
+        try:
+            safetext.check(title, "title")
+        except InputError as exc:
+            self.fail(parts + ("title",), exc.given, exc.allowed)
         values = {}
         for sec in AXIS_SECTIONS:
             own = self.table(spec.get(sec.key, {}), parts + (sec.key,), f"a table of {sec.key} entries")
@@ -381,6 +398,10 @@ def loads_design(text: str, name: str = "design.toml") -> Design:
 def load_design(path) -> Design:
     """Read and parse the design file at ``path``."""
     path = Path(path)
+    if not SAFE_STEM.match(path.stem):
+        raise DesignFileError.at(safetext.printable(path.name, keep=""), None, "", "a file name that cannot name records",
+                                 "a design file named with letters, digits, '.', '-' and '_' (the name of each "
+                                 "record starts with it), e.g. bin-tipper.toml")
     try:
         raw = path.read_bytes()
     except FileNotFoundError:

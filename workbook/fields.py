@@ -30,7 +30,7 @@ from dataclasses import dataclass, field as dc_field
 from typing import Any, Iterable, Mapping
 
 from .errors import InputError
-from . import units
+from . import safetext, units
 
 #: field kinds that are not physical quantities
 NON_QUANTITY = ("text", "choice", "flag", "quantity_list")
@@ -67,6 +67,10 @@ class Field:
         ``(min, max, step)`` in the display unit, for a slider beside the text entry.
     list_dimension : str
         Dimension of each entry of a ``"quantity_list"``.
+    optional : bool
+        The field may be left empty (None).
+    integer : bool
+        Only whole numbers are accepted (``points = 20.5`` is refused, not rounded).
     """
 
     key: str
@@ -84,6 +88,7 @@ class Field:
     slider: tuple | None = None
     list_dimension: str = ""
     optional: bool = False
+    integer: bool = False
 
     # ------------------------------------------------------------------ parsing
     @property
@@ -100,6 +105,8 @@ class Field:
             return "one of " + ", ".join(repr(c) for c in self.choices)
         dim = self.list_dimension if self.dimension == "quantity_list" else self.dimension
         words = dim.replace("_", " ")
+        if self.integer:
+            words = "whole number"
         if self.dimension == "quantity_list":
             words = f"a list of {words}s"
         else:
@@ -129,6 +136,8 @@ class Field:
             bad = True
         if hi is not None and (si > hi + tol or (self.high_open and si >= hi - tol)):
             bad = True
+        if self.integer and si != int(si):
+            raise InputError(self.key, value if isinstance(value, str) else _fmt(si, 17), self.allowed())
         if bad:
             shown = value if isinstance(value, str) else f"{_fmt(units.from_si(si, dim, self.unit))} {self.unit}".strip()
             raise InputError(self.key, shown, self.allowed())
@@ -146,7 +155,7 @@ class Field:
         if self.dimension == "text":
             if not isinstance(value, str):
                 raise InputError(self.key, repr(value), "text")
-            return value
+            return safetext.check(value, self.key)
         if self.dimension == "flag":
             if isinstance(value, bool):
                 return value
@@ -154,7 +163,9 @@ class Field:
                 return value.strip().lower() in ("true", "yes")
             raise InputError(self.key, repr(value), self.allowed())
         if self.dimension == "choice":
-            text = str(value).strip()
+            if not isinstance(value, str):
+                raise InputError(self.key, safetext.excerpt(repr(value)), self.allowed())
+            text = value.strip()
             if text not in self.choices:
                 raise InputError(self.key, repr(value), self.allowed())
             return text

@@ -172,7 +172,7 @@ OPERATION = Section(
     "operation",
     "Operation",
     (
-        Field("loads", "Load cases", "quantity_list", "kN", [2, 6, 10], list_dimension="force",
+        Field("loads", "Load cases", "quantity_list", "kN", [2, 6, 10], list_dimension="force", low=-5e4, high=5e4,
               help="external force on the rod, positive pushing it in (resists extension, overruns retraction)",
               source="demo scenario"),
         Field("friction", "Running friction", "force", "kN", 0.4, low=0, high=1e5,
@@ -255,9 +255,9 @@ STUDY = Section(
         Field("load_max", "Sweep load, highest", "force", "kN", None, low=-1e5, high=1e5, optional=True,
               help="highest load of the curves against load (empty: the load cases' range widened by a quarter)"),
         Field("pilot_ratios", "Pilot ratios to compare", "quantity_list", "", [2, 3, 5, 8],
-              list_dimension="dimensionless", help="counterbalance pilot ratios shown side by side",
+              list_dimension="dimensionless", low=0, low_open=True, high=20, help="counterbalance pilot ratios shown side by side",
               source="common practice (typical catalogue ratios, from memory)"),
-        Field("points", "Curve points", "dimensionless", "", 400, low=20, high=5000,
+        Field("points", "Curve points", "dimensionless", "", 400, low=20, high=5000, integer=True,
               help="points per curve", source="common practice"),
     ),
 )

@@ -222,11 +222,16 @@ def _as_quantity(value: Any, dimension: str, field: str, default_unit: str | Non
     if isinstance(value, bool):
         raise InputError(field, value, allowed)
     if isinstance(value, (int, float, np.floating, np.integer)):
+        try:
+            number = float(value)
+        except OverflowError:
+            raise InputError(field, f"a number of {len(str(value))} digits",
+                             allowed + " (a number this large is not finite)") from None
         if default_unit is None:
             if dimension == "dimensionless":
-                return reg.Quantity(float(value), "dimensionless")
+                return reg.Quantity(number, "dimensionless")
             raise InputError(field, value, allowed + " (a bare number needs a unit here)")
-        return _quantity_of(float(value), str(default_unit), field, value, allowed)
+        return _quantity_of(number, str(default_unit), field, value, allowed)
     if isinstance(value, np.ndarray):
         unit = default_unit or ("dimensionless" if dimension == "dimensionless" else None)
         if unit is None:

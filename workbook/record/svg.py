@@ -39,25 +39,61 @@ def _nice(x: float, round_: bool) -> float:
     return nf * 10 ** exp
 
 
+#: a range narrower than this share of its magnitude is drawn as a flat one, widened
+_FLAT = 1e-9
+#: the largest magnitude drawn; a record's numbers beyond it are clipped to it
+_HUGE = 1e300
+
+
 def nice_ticks(lo: float, hi: float, count: int = 6) -> list[float]:
-    """Round tick values covering ``lo``..``hi``.
+    """Round tick values covering ``lo``..``hi``, at least two, strictly increasing.
+
+    A range one ulp wide (or flat) is widened by a tenth of its magnitude; values beyond
+    ±1e300 are clipped there so that the span of the range stays a finite float.
 
     >>> nice_ticks(0.0, 9.3)
     [0.0, 2.0, 4.0, 6.0, 8.0, 10.0]
+    >>> nice_ticks(1.0, 1.0000000000000002)
+    [0.8, 0.9, 1.0, 1.1, 1.2]
+    >>> len(nice_ticks(-1.7e308, 1.7e308)) >= 2
+    True
     """
     if not (math.isfinite(lo) and math.isfinite(hi)):
         return [0.0, 1.0]
+    lo, hi = max(-_HUGE, min(_HUGE, lo)), max(-_HUGE, min(_HUGE, hi))
     if hi < lo:
         lo, hi = hi, lo
-    if hi == lo:
-        pad = abs(lo) * 0.1 or 1.0
+    size = max(abs(lo), abs(hi))
+    if size < 1e-290:  # subnormal numbers: nothing to tell apart, draw around zero
+        lo = hi = size = 0.0
+    if hi - lo <= _FLAT * size or hi == lo:
+        pad = size * 0.1 or 1.0
         lo, hi = lo - pad, hi + pad
     span = _nice(hi - lo, False)
     step = _nice(span / max(count - 1, 1), True)
     start = math.floor(lo / step) * step
     stop = math.ceil(hi / step) * step
-    n = int(round((stop - start) / step))
-    return [round(start + i * step, 12) + 0.0 for i in range(n + 1)]
+    n = max(1, min(int(round((stop - start) / step)), 50))
+    ticks = []
+    for i in range(n + 1):
+        v = float(f"{start + i * step:.12g}") + 0.0
+        if not ticks or v > ticks[-1]:
+            ticks.append(v)
+    if len(ticks) < 2:
+        ticks = [lo, hi]
+    return ticks
+
+
+def _scale(lo: float, hi: float, out_lo: float, out_hi: float):
+    """A function mapping ``lo..hi`` onto ``out_lo..out_hi``, finite for any finite input."""
+    size = max(abs(lo), abs(hi), 1e-300)
+    a, b = lo / size, hi / size
+
+    def to(v: float) -> float:
+        v = max(-_HUGE, min(_HUGE, v)) / size
+        return out_lo + (v - a) / (b - a) * (out_hi - out_lo)
+
+    return to
 
 
 def _fmt(v: float) -> str:
@@ -110,11 +146,8 @@ def line_chart(figure: dict) -> str:
     yt = nice_ticks(min(ys_all), max(ys_all))
     x0, x1, y0, y1 = xt[0], xt[-1], yt[0], yt[-1]
 
-    def px(x):
-        return LEFT + (x - x0) / (x1 - x0) * plot_w
-
-    def py(y):
-        return TOP + (y1 - y) / (y1 - y0) * plot_h
+    px = _scale(x0, x1, LEFT, LEFT + plot_w)
+    py = _scale(y0, y1, TOP + plot_h, TOP)
 
     # grid and ticks
     for t in xt:
