@@ -49,11 +49,13 @@ def test_evaluate_demo_writes_records_and_fails_on_the_tip(demo):
     assert code == 1, out + err
     assert out.startswith(CAUTION)
     tip = out[out.index("Axis tip:"):]
-    assert re.search(r"FAIL\s+P-ROD-RATING \[axis-check\]", tip)
-    # value vs limit with its unit and the source on the failing line
+    # the failing line is worded as the breach: value and limit with their unit, the source,
+    # and every study that found it (the axis check and the rod-pressure study, once)
     line = next(ln for ln in tip.splitlines() if "P-ROD-RATING" in ln)
-    assert re.search(r"[\d.]+ bar vs limit 210 bar", line) and "source:" in line
-    assert re.search(r"Axis tip: [1-9]\d* fail, \d+ caution, \d+ pass", out)
+    assert re.match(r"\s+FAIL\s+Rod chamber pressure reaches [\d.]+ bar, above the 210 bar limit", line), line
+    assert "source:" in line and "axis-check (P-ROD-RATING), rod-pressure (RP-ROD-CYLINDER)" in line
+    assert sum("P-ROD-RATING" in ln for ln in tip.splitlines()) == 1
+    assert re.search(r"Axis tip: FAIL: [1-9]\d* fail, \d+ caution, \d+ pass", out)
     folder = cwd / "records-out"
     for axis in ("lift", "tip"):
         rec = load(folder / f"bin-tipper-{axis}.json")
@@ -77,7 +79,7 @@ def test_evaluate_lift_alone_on_the_design_checks_passes(tmp_path):
     no_traceback(err)
     assert code == 0, out + err
     assert out.startswith(CAUTION)
-    assert "Axis lift: 0 fail" in out and "Axis tip" not in out
+    assert "Axis lift: CAUTION: 0 fail" in out and "Axis tip" not in out
     assert sorted(p.name for p in (tmp_path / "o").iterdir()) == [
         "bin-tipper-lift.html", "bin-tipper-lift.json", "bin-tipper-lift.md"]
     assert CAUTION in (tmp_path / "o" / "bin-tipper-lift.md").read_text(encoding="utf-8").replace("\\", "")

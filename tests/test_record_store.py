@@ -8,6 +8,7 @@ format documented in workbook/record/store.py (canonical JSON: keys sorted, sepa
 
 from __future__ import annotations
 
+import dataclasses
 import hashlib
 import json
 import math
@@ -19,9 +20,12 @@ import jsonschema
 import pytest
 from hypothesis import HealthCheck, given, settings, strategies as st
 
-from workbook.inputs import BY_KEY, SECTIONS
+from workbook.inputs import AXIS_SECTIONS, BY_KEY, SECTIONS
 from workbook.record import Record, RecordError, Study, load, loads, record_schema, save, to_json
 from workbook.record import store
+
+#: the sections a record holds once (the axis inputs); every other section stays with a study
+AXIS_KEYS = {sec.key for sec in AXIS_SECTIONS if sec.key != "study"}
 
 HOSTILE = ["<script>alert(1)</script>", "\"quoted\" & 'single'", "a\u0000b\x1f\x7f", "\u202eright-to-left",
            "emoji \U0001F6A7", "back\\slash", "}]\"{", "line\nbreak\r\n", ""]
@@ -88,7 +92,12 @@ def records(draw):
     study_list = draw(st.lists(studies(), max_size=3))
     keys = draw(st.lists(st.text(min_size=1, max_size=12).filter(lambda s: s.strip()), min_size=len(study_list),
                          max_size=len(study_list), unique=True))
-    return Record(identity, dict(zip(keys, study_list)), notes=draw(st.lists(texts, max_size=3)))
+    # one design per record: the axis inputs once, each study only its own settings
+    axis_inputs = {sec: e for sec, e in draw(input_entries()).items() if sec in AXIS_KEYS}
+    study_list = [dataclasses.replace(s, inputs={sec: e for sec, e in s.inputs.items() if sec not in AXIS_KEYS})
+                  for s in study_list]
+    return Record(identity, dict(zip(keys, study_list)), notes=draw(st.lists(texts, max_size=3)),
+                  inputs=axis_inputs)
 
 
 def _same_floats(a, b):
@@ -149,7 +158,7 @@ def _edit(path, change):
 
 def test_an_edited_value_is_refused_as_tampered(tmp_path):
     path = save(_demo_record(), tmp_path / "lift.json")
-    _edit(path, lambda d: d["studies"][0]["inputs"]["cylinder"]["bore"].update(value=81.0))
+    _edit(path, lambda d: d["inputs"]["cylinder"]["bore"].update(value=81.0))
     with pytest.raises(RecordError, match="the content no longer matches its digest: it was edited or damaged"):
         load(path)
     path = save(_demo_record(), tmp_path / "lift.json")
@@ -219,11 +228,11 @@ def test_a_part_the_catalogue_does_not_know_is_refused(tmp_path):
     path = save(_demo_record(), tmp_path / "lift.json")
 
     def change(d):
-        d["studies"][0]["inputs"]["cylinder"]["bore_size"] = {"value": 80.0, "unit": "mm"}
+        d["inputs"]["cylinder"]["bore_size"] = {"value": 80.0, "unit": "mm"}
         d.pop("digest")
         d["digest"] = store.digest(d)
     _edit(path, change)
-    with pytest.raises(RecordError, match=r"studies\.sizing\.inputs\.cylinder.*'bore_size' was unexpected"):
+    with pytest.raises(RecordError, match=r"lift.json, inputs\.cylinder.*'bore_size' was unexpected"):
         load(path)
 
 

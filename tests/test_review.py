@@ -163,7 +163,7 @@ def test_recheck_reports_level_changes_and_results_that_appear(evaluated):
 
 def test_recheck_fills_unrecorded_inputs_with_defaults_and_reports_them():
     s = Study("axis-check", inputs=inputs_from_values({"cylinder": {"bore": 0.07, "rod": 0.04}}))
-    values, filled = rerun_values(s)
+    values, filled = rerun_values(Record({"axis": "a"}).with_study(s), "axis-check")
     assert values["cylinder"]["bore"] == 0.07 and values["cylinder"]["rod"] == 0.04
     assert values["supply"]["relief_cracking"] == 160e5  # the catalogue default
     assert "supply.relief_cracking" in filled and "cylinder.bore" not in filled

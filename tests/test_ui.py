@@ -80,21 +80,86 @@ def test_each_study_updates_keeps_last_result_on_bad_entry_and_records(workdir, 
         assert f["source"].replace("'", "&#x27;") in text
 
 
-def test_saved_study_reopens_with_recorded_values(workdir):
+def test_recording_writes_one_design_and_the_design_file_keeps_its_comments(workdir):
+    """Record from two panels after changing a shared input: the record holds one design
+    (every study re-run on it) and the design file holds the input too, comments intact."""
+    design = workdir / "designs" / "bin-tipper.toml"
+    before = design.read_text(encoding="utf-8")
+    first = open_study("rod-pressure", design, axis="tip")
+    assert first.set("cylinder.rod", "32 mm")
+    assert [(s, k) for s, k, _a, _b in first.changes_from_design()] == [("cylinder", "rod")]
+    assert "Rod d" in first.changes_box.widget.value and "32 mm" in first.changes_box.widget.value
+    rec = first.record()
+    # every applicable study, on the one design: the axis inputs are held once
+    assert set(rec.studies) == {"axis-check", "restrictor-sizing", "speed-vs-load", "rod-pressure", "counterbalance"}
+    assert rec.inputs["cylinder"]["rod"]["si"] == pytest.approx(0.032)
+    assert all("cylinder" not in s.inputs for s in rec.studies.values())
+    after = design.read_text(encoding="utf-8")
+    assert 'rod = "32 mm"' in after and 'rod = "36 mm"' not in after
+    # every comment line of the file is still there, in the same order
+    comments = [ln for ln in before.splitlines() if ln.lstrip().startswith("#")]
+    assert [ln for ln in after.splitlines() if ln.lstrip().startswith("#")] == comments
+    assert load_design(design).axes["tip"].values["cylinder"]["rod"] == pytest.approx(0.032)
+    # a second panel opens on the file (which now agrees with the record): no notice
+    other = open_study("counterbalance", design, axis="tip")
+    assert other.values["cylinder"]["rod"] == pytest.approx(0.032) and other.record_values is None
+    assert other.set("supply.relief_full_flow", "165 bar")
+    rec2 = other.record()
+    assert rec2.inputs["supply"]["relief_full_flow"]["si"] == pytest.approx(165e5)
+    assert rec2.inputs["cylinder"]["rod"]["si"] == pytest.approx(0.032)
+    saved = load(first.record_path)
+    assert saved == rec2 and 'relief_full_flow = "165 bar"' in design.read_text(encoding="utf-8")
+    assert [ln for ln in design.read_text(encoding="utf-8").splitlines() if ln.lstrip().startswith("#")] == comments
+
+
+def test_opening_a_design_that_differs_from_its_record_says_so_and_applies_nothing(workdir):
     design = workdir / "designs" / "bin-tipper.toml"
     first = open_study("rod-pressure", design, axis="tip")
     assert first.set("cylinder.rod", "32 mm")
     first.record()
-    again = open_study("rod-pressure", design, axis="tip")
-    assert again.reopened
-    assert again.values["cylinder"]["rod"] == pytest.approx(0.032)
-    assert again.controls[("cylinder", "rod")].entry.value == "32 mm"
-    assert again.summary() == first.summary()
-    # a second study recorded into the same record keeps the first (nothing recorded is lost)
-    other = open_study("counterbalance", design, axis="tip")
-    other.record()
-    rec = load(first.record_path)
-    assert set(rec.studies) == {"rod-pressure", "counterbalance"}
+    # the engineer edits the design file by hand afterwards
+    text = design.read_text(encoding="utf-8")
+    design.write_text(text.replace('bore = "63 mm"', 'bore = "100 mm"'), encoding="utf-8")
+    again = open_study("speed-vs-load", design, axis="tip")
+    assert again.values["cylinder"]["bore"] == pytest.approx(0.1)         # the file wins on opening
+    assert again.notice_box.layout.display != "none"
+    notice = again.notice.value
+    assert "holds other values than bin-tipper.toml" in notice
+    assert "Bore D" in notice and "100 mm" in notice and "63 mm" in notice
+    assert again.load_record_values()
+    assert again.values["cylinder"]["bore"] == pytest.approx(0.063)
+    assert again.controls[("cylinder", "bore")].entry.value == "63 mm"
+    assert again.notice_box.layout.display == "none"
+    # loading changes the panel only; the design file waits for Record
+    assert 'bore = "100 mm"' in design.read_text(encoding="utf-8")
+
+
+def test_record_and_export_are_refused_while_stale_and_no_file_changes(workdir):
+    design = workdir / "designs" / "bin-tipper.toml"
+    panel = open_study("rod-pressure", design, axis="tip")
+    with pytest.raises(Exception) as info:
+        panel.export()
+    assert "press Record study first" in str(info.value)
+    panel.record()
+    panel.export()
+    files = {p: p.read_bytes() for p in (panel.record_path, panel.export_path, design)}
+    assert not panel.set("cylinder.bore", "-3 mm")
+    for action in (panel.record, panel.export):
+        with pytest.raises(Exception) as info:
+            action()
+        assert "out-of-date results" in str(info.value)
+    # the buttons say why, at the button
+    panel.record_button.click()
+    assert "out-of-date results" in panel.record_status.value
+    panel.export_button.click()
+    assert "out-of-date results" in panel.record_status.value
+    assert {p: p.read_bytes() for p in files} == files
+    # a valid change that is not recorded yet: export refuses to show the old design as this one
+    assert panel.set("cylinder.bore", "70 mm")
+    with pytest.raises(Exception) as info:
+        panel.export()
+    assert "press Record study first" in str(info.value)
+    assert {p: p.read_bytes() for p in files} == files
 
 
 def test_cross_field_refusal_is_shown_at_the_field_not_raised(workdir):

@@ -4,7 +4,7 @@ Subcommands::
 
     axisbook evaluate DESIGN.toml [--out DIR] [--axis AXIS ...] [--study KIND ...] [--markdown]
     axisbook export RECORD.json [--html FILE | --markdown FILE]
-    axisbook compare OLD.json NEW.json [--rtol R]
+    axisbook compare OLD.json NEW.json [--rtol R] [--force]
     axisbook recheck RECORD.json [--rtol R] [--atol A]
 
 Exit codes (the same for every subcommand):
@@ -22,11 +22,12 @@ Exit codes (the same for every subcommand):
 from __future__ import annotations
 
 import argparse
+import os
 import sys
 import textwrap
 from pathlib import Path
 
-from . import CAUTION, __version__
+from . import CAUTION, __version__, safetext
 
 PROG = "axisbook"
 EXIT_OK, EXIT_CHECK, EXIT_INPUT = 0, 1, 2
@@ -73,6 +74,7 @@ _DESCRIPTIONS = {
         "results (with the relative change), finding levels, curves and notes.",
         "example:\n"
         "  axisbook compare old/bin-tipper-tip.json records-out/bin-tipper-tip.json\n\n"
+        "Records of different machines or axes are refused (exit 2) unless --force.\n\n"
         "exit codes: 0 nothing moved, 1 something moved, 2 bad input",
     ),
     "recheck": (
@@ -150,6 +152,8 @@ def build_parser() -> argparse.ArgumentParser:
     p.add_argument("new", metavar="NEW.json", help="the later record")
     p.add_argument("--rtol", type=_tolerance, default=0.0, metavar="R",
                    help="results within this relative change count as unmoved (default: 0, any change)")
+    p.add_argument("--force", action="store_true",
+                   help="compare records of different machines or axes (refused otherwise)")
     p.set_defaults(run=_cmd_compare)
 
     p = add("recheck", "re-run a record's studies with the current library and list drift")
@@ -185,12 +189,14 @@ def finding_line(study: str, f: dict) -> str:
 
 
 def axis_summary(record, path: Path) -> list[str]:
-    """Summary lines of one evaluated axis: counts per level, then each fail and caution."""
-    findings = record.findings()
-    counts = {lvl: sum(1 for f in findings if f["level"] == lvl) for lvl in ("fail", "caution", "pass")}
-    lines = [f"Axis {record.axis}: {counts['fail']} fail, {counts['caution']} caution, {counts['pass']} pass "
-             f"-> {path}"]
-    lines += [finding_line(f["study"], f) for f in findings if f["level"] in ("fail", "caution")]
+    """Summary lines of one evaluated axis: the verdict (the same the panels and the review
+    copy show: counts of distinct findings, then each fail and caution once, worded as the
+    breach, with the studies that found it), then the record's notes."""
+    from .record import record_verdict
+
+    v = record_verdict(record)
+    lines = [f"Axis {record.axis}: {v.headline()} -> {path}"]
+    lines += ["  " + item.to_line() for item in v.items]
     lines += [f"  note: {n}" for n in record.notes[1:]]
     return lines
 
@@ -199,6 +205,7 @@ def axis_summary(record, path: Path) -> list[str]:
 def _cmd_evaluate(args) -> int:
     from .design import load_design
     from .record import export_html, export_markdown, save
+    from .record.store import folder_lock
     from .review import DEFAULT_STUDIES, evaluate_design
 
     from .errors import InputError
@@ -219,11 +226,17 @@ def _cmd_evaluate(args) -> int:
     lines = [CAUTION, "", f"Design {design.source}: {design.machine.get('machine', '')}, "
              f"revision {design.machine.get('revision', '')}; studies: {', '.join(kinds)}", ""]
     failing = []
+    written_sets = {}
+    with folder_lock(out):  # a concurrent evaluation into this folder waits: each set is from one run
+        for axis_key, (record, _outcomes) in evaluated.items():
+            path = _inside(out, f"{stem}-{axis_key}.json")
+            save(record, path)
+            export_html(record, _inside(out, path.with_suffix(".html").name))
+            if args.markdown:
+                export_markdown(record, _inside(out, path.with_suffix(".md").name))
+            written_sets[axis_key] = path
     for axis_key, (record, _outcomes) in evaluated.items():
-        path = save(record, out / f"{stem}-{axis_key}.json")
-        export_html(record, path.with_suffix(".html"))
-        if args.markdown:
-            export_markdown(record, path.with_suffix(".md"))
+        path = written_sets[axis_key]
         lines += axis_summary(record, path)
         lines.append("")
         if any(f["level"] == "fail" for f in record.findings()):
@@ -236,6 +249,18 @@ def _cmd_evaluate(args) -> int:
         lines.append("Result: no failing finding (exit code 0). Cautions still need a look.")
     print("\n".join(lines))
     return EXIT_CHECK if failing else EXIT_OK
+
+
+def _inside(folder: Path, name: str) -> Path:
+    """``folder / name`` if that file lies directly in ``folder`` once both are resolved; refused otherwise."""
+    from .errors import InputError
+
+    target = folder / name
+    if (Path(name).name != name or name in (".", "..")
+            or os.path.realpath(target.parent) != os.path.realpath(folder)):
+        raise InputError("--out", f"a file {name!r} that would land outside {folder}",
+                         "records and review copies written inside the output folder only")
+    return target
 
 
 def _cmd_export(args) -> int:
@@ -253,9 +278,16 @@ def _cmd_export(args) -> int:
 
 
 def _cmd_compare(args) -> int:
+    from .errors import InputError
     from .record import diff, load
 
     old, new = load(args.old), load(args.new)
+    for key, what in (("machine", "machine"), ("axis", "axis")):
+        a, b = old.identity.get(key, ""), new.identity.get(key, "")
+        if a != b and not args.force:
+            raise InputError(f"compare {args.new}", f"a record of {what} {b!r} against one of {what} {a!r} "
+                             f"({args.old})", f"two records of the same machine and axis (or --force to "
+                             "compare them anyway)")
     d = diff(old, new, rtol=args.rtol)
     print(f"Compare {args.old} -> {args.new}")
     print(d.to_text())
@@ -279,8 +311,37 @@ def _os_message(exc: OSError) -> str:
     return f"{where}: {what}" if where else what
 
 
+class _Escaping:
+    """A text stream that writes control, zero-width and bidirectional characters as escapes.
+
+    Text from a design file or a record (a machine name, an axis key, a note) reaches the
+    terminal through it, so an escape sequence in that text is shown, not obeyed.
+    """
+
+    def __init__(self, stream):
+        self._stream = stream
+
+    def write(self, text):
+        return self._stream.write(safetext.printable(text, keep="\n\t"))
+
+    def __getattr__(self, name):
+        return getattr(self._stream, name)
+
+
 def main(argv=None) -> int:
-    """Run the command line with ``argv`` (default: ``sys.argv[1:]``); return the exit code."""
+    """Run the command line with ``argv`` (default: ``sys.argv[1:]``); return the exit code.
+
+    Everything printed goes through :class:`_Escaping`.
+    """
+    saved = sys.stdout, sys.stderr
+    sys.stdout, sys.stderr = _Escaping(sys.stdout), _Escaping(sys.stderr)
+    try:
+        return _main(argv)
+    finally:
+        sys.stdout, sys.stderr = saved
+
+
+def _main(argv=None) -> int:
     for stream in (sys.stdout, sys.stderr):
         try:
             stream.reconfigure(errors="replace")
@@ -294,13 +355,32 @@ def main(argv=None) -> int:
     from .errors import InputError
 
     try:
-        return args.run(args)
+        try:
+            return args.run(args)
+        finally:
+            sys.stdout.flush()
+    except BrokenPipeError:
+        # the reader went away (`axisbook compare a b | head -1`): end quietly, as a filter does
+        _quiet_stdout()
+        return EXIT_OK
     except InputError as exc:  # includes DesignFileError and RecordError
         message = str(exc)
     except OSError as exc:
         message = _os_message(exc)
     print(f"{PROG}: error: {message}", file=sys.stderr)
     return EXIT_INPUT
+
+
+def _quiet_stdout() -> None:
+    """Point stdout at the null device so the interpreter's final flush cannot fail again."""
+    import os
+
+    try:
+        devnull = os.open(os.devnull, os.O_WRONLY)
+        os.dup2(devnull, sys.stdout.fileno())
+        os.close(devnull)
+    except (OSError, ValueError, AttributeError):
+        pass
 
 
 __all__ = ["main", "build_parser", "finding_line", "axis_summary", "EXIT_OK", "EXIT_CHECK", "EXIT_INPUT"]

@@ -50,9 +50,7 @@ from .design import Design, DesignFileError
 from .errors import InputError
 from .inputs import AXIS_SECTIONS, BY_KEY
 from .record import LevelChange, Record, Study, diff
-
-#: the studies :func:`evaluate_design` runs by default, in record order
-DEFAULT_STUDIES = ("axis-check", "restrictor-sizing", "speed-vs-load", "rod-pressure", "counterbalance")
+from .studies.whole_axis import DEFAULT_STUDIES, evaluate as evaluate_values, not_applicable
 #: default relative tolerance of :func:`recheck`
 RTOL = 1e-6
 #: default absolute floor of :func:`recheck`, in each result's display unit
@@ -60,36 +58,43 @@ ATOL = 1e-9
 
 
 # ---------------------------------------------------------------------------- evaluation
-def not_applicable(kind: str, values) -> str | None:
-    """Why the study ``kind`` does not apply to an axis with ``values``, or None when it does.
-
-    >>> not_applicable("counterbalance", {"holding": {"kind": "none"}})
-    'holding.kind is none (the axis has no load-holding valve)'
-    >>> not_applicable("axis-check", {"holding": {"kind": "none"}}) is None
-    True
-    """
-    if kind == "counterbalance" and values.get("holding", {}).get("kind") == "none":
-        return "holding.kind is none (the axis has no load-holding valve)"
-    return None
-
-
 def design_key(design: Design, axis_key: str, name: str) -> str:
     """The dotted design-file key of the input a study calls ``name`` on ``axis_key``.
 
     ``"flow_valve.setting"`` becomes ``"axes.<axis>.flow_valve.setting"``, or
     ``"defaults.flow_valve.setting"`` when the axis takes it from ``[defaults]``. A name
     that is not ``section.field`` maps to the axis table itself.
+
+    A bare field key that one axis section alone has (``"nu100"``, as a physics model
+    names it) is taken as that section's field. A study setting the file does not give
+    whose default is worked out from other inputs (the sweep range from the load cases)
+    maps to those inputs (:data:`DERIVED_FROM`), never to a key that is not in the file.
+
+    >>> from workbook.design import loads_design
+    >>> d = loads_design('[defaults.oil]\\nnu100 = "60 cSt"\\n[axes.lift.operation]\\nloads = ["9 kN"]\\n', "d.toml")
+    >>> design_key(d, "lift", "nu100"), design_key(d, "lift", "study.load_max")
+    ('defaults.oil.nu100', 'axes.lift.operation.loads')
     """
     head = name.split("[", 1)[0].strip()
     parts = head.split(".")
+    if len(parts) == 1:
+        owners = [s.key for s in AXIS_SECTIONS if parts[0] in s.keys]
+        if len(owners) == 1:
+            parts = [owners[0], parts[0]]
     if len(parts) >= 2 and parts[0] in BY_KEY and parts[1] in BY_KEY[parts[0]].keys:
         sec, fld = parts[0], parts[1]
         own = ("axes", axis_key, sec, fld)
         shared = ("defaults", sec, fld)
         if own not in design.lines and shared in design.lines:
             return ".".join(shared)
+        if own not in design.lines and (sec, fld) in DERIVED_FROM:
+            return design_key(design, axis_key, ".".join(DERIVED_FROM[sec, fld]))
         return ".".join(own)
     return f"axes.{axis_key}"
+
+
+#: study settings whose default is worked out from other inputs -> the input it comes from
+DERIVED_FROM = {("study", "load_min"): ("operation", "loads"), ("study", "load_max"): ("operation", "loads")}
 
 
 def _located(design: Design, axis_key: str, kind: str, exc: InputError) -> DesignFileError:
@@ -104,32 +109,23 @@ def _located(design: Design, axis_key: str, kind: str, exc: InputError) -> Desig
 
 
 def evaluate_axis(design: Design, axis_key: str, studies: Sequence[str] = DEFAULT_STUDIES):
-    """``(Record, [Outcome, ...])`` of one axis of ``design``; see :func:`evaluate_design`."""
+    """``(Record, [Outcome, ...])`` of one axis of ``design``; see :func:`evaluate_design`.
+
+    The studies run through :func:`workbook.studies.whole_axis.evaluate`, the same call a
+    study panel makes, so the record and its verdict are what the panel shows.
+    """
     axis = design.axes.get(axis_key)
     if axis is None:
         raise design.error("axes", repr(axis_key), "one of the axes of the design: " + ", ".join(design.axes))
-    record = Record(design.identity_for(axis_key))
+    ev = evaluate_values(axis.values, studies)
+    for kind, exc in ev.refused.items():
+        if isinstance(exc, DesignFileError):
+            raise exc
+        raise _located(design, axis_key, kind, exc) from None
     source = design.source or "a design file"
-    record = record.with_note(f"Evaluated from {source}, axis {axis_key} ({axis.title}).")
-    outcomes = []
-    skipped = []
-    for kind in studies:
-        mod = _studies.module(kind)
-        why = not_applicable(kind, axis.values)
-        if why is not None:
-            skipped.append(f"{kind} study left out: {why}")
-            continue
-        try:
-            outcome = mod.run(axis.values)
-        except DesignFileError:
-            raise
-        except InputError as exc:
-            raise _located(design, axis_key, kind, exc) from None
-        outcomes.append(outcome)
-        record = record.with_study(outcome.to_study(), key=kind)
-    for note in skipped:
-        record = record.with_note(note)
-    return record, outcomes
+    record = ev.to_record(design.identity_for(axis_key),
+                          notes=[f"Evaluated from {source}, axis {axis_key} ({axis.title})."])
+    return record, list(ev.outcomes.values())
 
 
 def evaluate_design(design: Design, studies: Sequence[str] = DEFAULT_STUDIES,
@@ -257,14 +253,16 @@ def _curve_moved(a: dict, b: dict, rtol: float, atol: float) -> bool:
     return False
 
 
-def rerun_values(study: Study) -> tuple[dict, list]:
-    """Values to re-run ``study``: catalogue defaults overlaid with the recorded inputs.
+def rerun_values(record: Record, key: str) -> tuple[dict, list]:
+    """Values to re-run the study ``key`` of ``record``: catalogue defaults overlaid with the
+    record's axis inputs and the study's own settings.
 
     Returns ``(values, filled)`` where ``filled`` lists the ``"section.field"`` names of the
-    catalogue that the study did not record (they take their defaults).
+    study's FIELDS that the record did not hold (they take their defaults).
     """
+    study = record.studies[key]
     values = {s.key: s.defaults() for s in AXIS_SECTIONS}
-    recorded = study.values()
+    recorded = record.study_values(key)
     for sec, fields in recorded.items():
         values.setdefault(sec, {}).update(fields)
     mod_fields = ()
@@ -277,8 +275,9 @@ def rerun_values(study: Study) -> tuple[dict, list]:
 def recheck(record: Record, rtol: float = RTOL, atol: float = ATOL) -> RecheckReport:
     """Re-run every study of ``record`` with the current library and report what moved.
 
-    Each study runs on its own recorded inputs (``Study.values()``), any input it did not
-    record taking the catalogue default. The re-run studies form a new record (same
+    Each study runs on the record's axis inputs and its own settings
+    (:meth:`~workbook.record.Record.study_values`), any input not recorded taking the
+    catalogue default. The re-run studies form a new record (same
     identity, inputs and notes), which :func:`workbook.record.diff` compares with the saved
     one; results within ``max(rtol*|old|, atol)`` count as unmoved.
     """
@@ -291,7 +290,7 @@ def recheck(record: Record, rtol: float = RTOL, atol: float = ATOL) -> RecheckRe
         if study.kind not in _studies.KINDS:
             unknown.append((key, study.kind))
             continue
-        values, missing = rerun_values(study)
+        values, missing = rerun_values(record, key)
         filled += [(key, name) for name in missing]
         try:
             outcome = _studies.run(study.kind, values)

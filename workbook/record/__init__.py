@@ -18,11 +18,13 @@ from .model import (FINDING_KEYS, LEVELS, SCHEMA_VERSION, SUPPORTED_SCHEMA_VERSI
                     finding_entry, inputs_from_values, values_from_inputs)
 from .schema import record_schema
 from .store import digest, load, loads, save, to_json
+from .verdict import Verdict, VerdictItem, record_verdict, verdict
 
 __all__ = [
     "Record", "Study", "inputs_from_values", "values_from_inputs", "finding_entry",
     "save", "load", "loads", "to_json", "digest", "record_schema",
     "to_markdown", "to_html", "export_html", "export_markdown",
     "diff", "RecordDiff", "InputChange", "ResultChange", "LevelChange",
+    "Verdict", "VerdictItem", "verdict", "record_verdict",
     "RecordError", "SCHEMA_VERSION", "SUPPORTED_SCHEMA_VERSIONS", "LEVELS", "FINDING_KEYS",
 ]

@@ -1,7 +1,8 @@
 """What moved between two records of an axis.
 
 :func:`diff` lists identity entries that changed, studies added or removed, and within the
-studies both records hold: inputs that changed (old and new with their units), results that
+studies both records hold: inputs that changed (the axis inputs, held once per record, and
+each study's own settings) (old and new with their units), results that
 moved (with the relative change), findings whose level changed (or that appeared or went),
 figures whose curve data changed and notes added or removed. The library versions are
 reported but do not by themselves make a diff non-empty: a new library that moves nothing
@@ -104,7 +105,8 @@ class RecordDiff:
         for c in self.inputs:
             sec = BY_KEY.get(c.section)
             label = sec[c.field].label if sec and c.field in sec.keys else c.field
-            lines.append(f"[{c.study}] input {c.section}.{c.field} ({label}): "
+            where = f"[{c.study}] " if c.study else ""
+            lines.append(f"{where}input {c.section}.{c.field} ({label}): "
                          f"{_show(c.old, c.old_unit)} -> {_show(c.new, c.new_unit)}")
         for c in self.results:
             rel = c.relative
@@ -139,11 +141,11 @@ def _entry_key(entry: dict):
     return entry.get("si", entry.get("value")), None if "si" in entry else entry.get("unit")
 
 
-def _inputs(key: str, a: Study, b: Study) -> list:
+def _inputs(key: str, a_inputs, b_inputs) -> list:
     out = []
-    sections = list(a.inputs) + [s for s in b.inputs if s not in a.inputs]
+    sections = list(a_inputs) + [s for s in b_inputs if s not in a_inputs]
     for sec in sections:
-        ea, eb = a.inputs.get(sec, {}), b.inputs.get(sec, {})
+        ea, eb = a_inputs.get(sec, {}), b_inputs.get(sec, {})
         for fld in list(ea) + [f for f in eb if f not in ea]:
             old, new = ea.get(fld), eb.get(fld)
             if old is not None and new is not None and _entry_key(old) == _entry_key(new):
@@ -201,11 +203,12 @@ def diff(old: Record, new: Record, rtol: float = 0.0) -> RecordDiff:
     added = [k for k in new.studies if k not in old.studies]
     removed = [k for k in old.studies if k not in new.studies]
     inputs, results, levels, figures, notes_added, notes_removed = [], [], [], [], [], []
+    inputs += _inputs("", old.inputs, new.inputs)
     for key, a in old.studies.items():
         b = new.studies.get(key)
         if b is None:
             continue
-        inputs += _inputs(key, a, b)
+        inputs += _inputs(key, a.inputs, b.inputs)
         results += _results(key, a, b, rtol)
         levels += _levels(key, a, b)
         for name in list(a.figures) + [n for n in b.figures if n not in a.figures]:

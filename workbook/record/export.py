@@ -1,8 +1,11 @@
 """Review forms of a record: Markdown and self-contained HTML.
 
-Both show, in this order: the identity, the caution (:data:`workbook.CAUTION`), a count of
-findings by level, then every study with its inputs (grouped by catalogue section, with
-units), results, findings (level, value, limit, margin and source), figures and notes, and
+Both show, in this order: the identity, the caution (:data:`workbook.CAUTION`), the verdict
+of the whole axis (:mod:`workbook.record.verdict`: counts by level, then every fail and every
+caution worded as the breach, with its worst case, value, limit, margin, source and the
+studies that found it: the same list the panels and ``axisbook evaluate`` show), the axis
+inputs once (grouped by catalogue section, with units), then every study with its own
+settings, results, findings (level, value, limit, margin and source), figures and notes, and
 last the record's own notes.
 
 The HTML needs nothing else to open: styles are inline, figures are inline SVG drawn from
@@ -21,6 +24,7 @@ True
 from __future__ import annotations
 
 import html
+import re
 from pathlib import Path
 
 from .. import CAUTION
@@ -28,6 +32,7 @@ from ..inputs import BY_KEY, SECTIONS
 from .model import LEVELS, Record, Study
 from .store import atomic_write_text
 from .svg import ACCENT, line_chart
+from .verdict import margin_text, pretty_unit, record_verdict
 
 LEVEL_WORD = {"fail": "FAIL", "caution": "CAUTION", "pass": "PASS"}
 LEVEL_MARK = {"fail": "\u25a0", "caution": "\u25b2", "pass": "\u25cb"}  # filled square, triangle, ring
@@ -55,21 +60,11 @@ def _margin(m) -> str:
     return "" if m is None else f"{m * 100:.3g} %"
 
 
-def pretty_unit(unit: str) -> str:
-    """A unit as people write it: ``cm**3`` as ``cm³``, ``degC`` as ``°C``.
-
-    >>> pretty_unit("kg/m**3"), pretty_unit("degC")
-    ('kg/m³', '°C')
-    """
-    return (unit.replace("**2", "\u00b2").replace("**3", "\u00b3").replace("degC", "\u00b0C")
-            .replace("degF", "\u00b0F"))
-
-
-def _input_rows(study: Study):
+def _input_rows(inputs):
     """(section title, [(label, key, value text, unit)]) in catalogue order."""
-    order = [s.key for s in SECTIONS] + [k for k in study.inputs if k not in BY_KEY]
+    order = [s.key for s in SECTIONS] + [k for k in inputs if k not in BY_KEY]
     for sec_key in order:
-        entries = study.inputs.get(sec_key)
+        entries = inputs.get(sec_key)
         if not entries:
             continue
         sec = BY_KEY.get(sec_key)
@@ -86,18 +81,37 @@ def _input_rows(study: Study):
 
 
 def _counts(record: Record) -> dict:
-    counts = {lvl: 0 for lvl in LEVELS}
-    for f in record.findings():
-        counts[f["level"]] += 1
-    return counts
+    """Distinct findings by level (one breach found by two studies counts once)."""
+    return dict(record_verdict(record).counts)
+
+
+def _verdict_rows(record: Record):
+    """(level, breach, worst case, value, limit, margin, source, found by) of every fail and caution."""
+    for item in record_verdict(record).items:
+        unit = pretty_unit(item.unit)
+        value = "" if item.value is None else f"{_num(item.value, 4)} {unit}".strip()
+        limit = "" if item.limit is None else f"{_num(item.limit, 4)} {unit}".strip()
+        yield (item.level, item.text, item.case, value, limit,
+               "" if item.margin is None else margin_text(item.margin), item.source, item.found_by)
 
 
 # ---------------------------------------------------------------------------- Markdown
+#: what a Markdown renderer would turn into a link by itself (GFM autolinks): a scheme's
+#: colon before "//", the dot after "www", the "@" of an address; each is escaped
+_AUTOLINK = re.compile(r"(?i)(?<=[a-z0-9+.-])(:)(?=//)|(?<=\bwww)(\.)|(?<=[a-z0-9._%+-])(@)(?=[a-z0-9-])")
+
+
 def _md(text) -> str:
-    """Escape text for a Markdown table cell or line: HTML-escaped, markup characters escaped."""
+    """Escape text for a Markdown table cell or line: HTML-escaped, markup characters escaped,
+    and bare addresses kept as text (``https\\://``, ``www\\.``, ``a\\@b``), never made links.
+
+    >>> _md("see https://example.com or www.example.com, mail a@b.example")
+    'see https\\\\://example.com or www\\\\.example.com, mail a\\\\@b.example'
+    """
     out = str(text)
     for ch in "\\`*_[]|#~":
         out = out.replace(ch, "\\" + ch)
+    out = _AUTOLINK.sub(lambda m: "\\" + m.group(0), out)
     out = html.escape(out, quote=True)
     return out.replace("\r\n", " ").replace("\n", " ").replace("\r", " ")
 
@@ -117,12 +131,24 @@ def to_markdown(record: Record) -> str:
     rows += [["Library version", _md(record.library_version)], ["Schema version", str(record.schema_version)]]
     out += _md_table(["Identity", ""], rows)
     c = _counts(record)
-    out += ["Findings: " + ", ".join(f"{c[lvl]} {LEVEL_WORD[lvl]}" for lvl in LEVELS), ""]
+    out += ["## Verdict of the axis", "",
+            "Findings: " + ", ".join(f"{c[lvl]} {LEVEL_WORD[lvl]}" for lvl in LEVELS), ""]
+    vrows = [[f"{LEVEL_MARK[lvl]} **{LEVEL_WORD[lvl]}**", _md(text) + (f" ({_md(case)})" if case else ""),
+              _md(value), _md(limit), _md(margin), _md(source), _md(found)]
+             for lvl, text, case, value, limit, margin, source, found in _verdict_rows(record)]
+    if vrows:
+        out += _md_table(["Level", "Breach", "Value", "Limit", "Margin", "Source", "Found by"], vrows)
+    if record.inputs:
+        out += ["## Design inputs", "", "Every study of this record ran on these inputs.", ""]
+        for title, rows in _input_rows(record.inputs):
+            out += [f"**{_md(title)}**", ""]
+            out += _md_table(["Input", "Key", "Value", "Unit"],
+                             [[_md(lbl), _md(k), _md(v), _md(u)] for lbl, k, v, u in rows])
     for n, (key, study) in enumerate(record.studies.items(), 1):
         out += [f"## {n}. {_md(study.title or study.kind)}", "", f"Study {_md(key)}, kind {_md(study.kind)}.", ""]
         if study.inputs:
-            out += ["### Inputs", ""]
-            for title, rows in _input_rows(study):
+            out += ["### Study settings", ""]
+            for title, rows in _input_rows(study.inputs):
                 out += [f"**{_md(title)}**", ""]
                 out += _md_table(["Input", "Key", "Value", "Unit"],
                                  [[_md(lbl), _md(k), _md(v), _md(u)] for lbl, k, v, u in rows])
@@ -230,8 +256,8 @@ def _study_html(n: int, key: str, study: Study) -> str:
     out = [f'<section class="study" id="study-{n}">', f"<h2>{n}. {_esc(study.title or study.kind)}</h2>",
            f'<p class="meta">Study <code>{_esc(key)}</code>, kind <code>{_esc(study.kind)}</code></p>']
     if study.inputs:
-        out.append("<h3>Inputs</h3>")
-        for title, rows in _input_rows(study):
+        out.append("<h3>Study settings</h3>")
+        for title, rows in _input_rows(study.inputs):
             out.append(f"<h4>{_esc(title)}</h4>")
             out.append(_table(["Input", "Key", "Value", "Unit"],
                               [[_esc(lbl), f"<code>{_esc(k)}</code>", _esc(v), _esc(u)] for lbl, k, v, u in rows],
@@ -277,6 +303,29 @@ def to_html(record: Record) -> str:
     ident_rows += [["Library version", _esc(record.library_version)], ["Schema version", str(record.schema_version)]]
     c = _counts(record)
     summary = "".join(f"<span>{_level_html(lvl)} {c[lvl]}</span>" for lvl in LEVELS)
+    vrows, vclasses = [], []
+    for lvl, text, case, value, limit, margin, source, found in _verdict_rows(record):
+        breach = _esc(text) + (f'<br><span class="meta">{_esc(case)}</span>' if case else "")
+        vrows.append([_level_html(lvl), breach, _esc(value), _esc(limit), _esc(margin), _esc(source), _esc(found)])
+        vclasses.append(f"row-{lvl}")
+    verdict_html = ['<section class="verdict" id="verdict"><h2>Verdict of the axis</h2>',
+                    f'<p class="summary">Findings: {summary}</p>']
+    if vrows:
+        verdict_html.append(_table(["Level", "Breach", "Value", "Limit", "Margin", "Source", "Found by"], vrows,
+                                   num_cols=(2, 3, 4), row_classes=vclasses, cls="verdict"))
+    else:
+        verdict_html.append("<p>No finding fails or needs caution.</p>")
+    verdict_html.append("</section>")
+    inputs_html = []
+    if record.inputs:
+        inputs_html = ['<section class="inputs" id="inputs"><h2>Design inputs</h2>',
+                       "<p>Every study of this record ran on these inputs.</p>"]
+        for title, rows in _input_rows(record.inputs):
+            inputs_html.append(f"<h4>{_esc(title)}</h4>")
+            inputs_html.append(_table(["Input", "Key", "Value", "Unit"],
+                                      [[_esc(lbl), f"<code>{_esc(k)}</code>", _esc(v), _esc(u)]
+                                       for lbl, k, v, u in rows], num_cols=(2,), cls="inputs"))
+        inputs_html.append("</section>")
     parts = [
         "<!DOCTYPE html>",
         '<html lang="en"><head><meta charset="utf-8">',
@@ -285,9 +334,8 @@ def to_html(record: Record) -> str:
         f"<style>{_CSS}</style></head><body>",
         f"<header><h1>{heading}</h1>",
         f'<p class="caution" role="note">{_esc(CAUTION)}</p>',
-        _table(["Identity", ""], ident_rows),
-        f'<p class="summary">Findings: {summary}</p></header>',
-        "<main>",
+        _table(["Identity", ""], ident_rows), "</header>",
+        "<main>", *verdict_html, *inputs_html,
     ]
     parts += [_study_html(n, key, s) for n, (key, s) in enumerate(record.studies.items(), 1)]
     if record.notes:

@@ -1,12 +1,16 @@
 """The data model of the design record: :class:`Record` and :class:`Study`.
 
-One record per axis. A record holds the identity the user gives (machine, axis, revision,
-author, date: the keys of :data:`workbook.inputs.IDENTITY`), the version of the library
-that wrote it, the schema version, an ordered mapping of studies and free notes.
+One record per axis, holding one design. A record holds the identity the user gives
+(machine, axis, revision, author, date: the keys of :data:`workbook.inputs.IDENTITY`), the
+version of the library that wrote it, the schema version, the axis inputs (once: every
+study of the record ran on them), an ordered mapping of studies and free notes. A study
+that ran on other axis inputs than the record's is refused: a record never mixes designs.
 
 A study holds
 
-``inputs``    section -> field -> entry, the sections and fields of :mod:`workbook.inputs`.
+``inputs``    its own settings (the ``study`` section: target flow, sweep range, ...); the
+              axis sections it was given are lifted into the record's ``inputs``. Both are
+              section -> field -> entry, the sections and fields of :mod:`workbook.inputs`.
               A quantity entry is ``{"value": 80.0, "unit": "mm", "si": 0.08}``: the value
               in the field's display unit for people, the SI value for a lossless return
               (display-unit conversion can move the last bit). Text, choice and flag
@@ -50,13 +54,21 @@ import numpy as np
 from .. import CAUTION, __version__
 from ..errors import InputError
 from ..fields import Field
-from ..inputs import BY_KEY, IDENTITY, SECTIONS
-from .. import units
+from ..inputs import AXIS_SECTIONS, BY_KEY, IDENTITY, SECTIONS
+from .. import safetext, units
 
 #: schema version this library writes
-SCHEMA_VERSION = 1
-#: schema versions this library reads
-SUPPORTED_SCHEMA_VERSIONS = (1,)
+SCHEMA_VERSION = 2
+#: schema versions this library reads (version 1 is migrated on load: see :class:`Record`)
+SUPPORTED_SCHEMA_VERSIONS = (1, 2)
+#: sections that are a study's own settings; every other section describes the axis and is
+#: held once per record
+STUDY_SECTIONS = ("study",)
+#: the sections that describe the axis (held once per record)
+_AXIS_KEYS = tuple(s.key for s in AXIS_SECTIONS if s.key not in STUDY_SECTIONS)
+#: the note a record migrated from schema version 1 carries
+MIGRATED_NOTE = ("Migrated from record schema version 1: the axis inputs, which every study held "
+                 "alike, are now held once.")
 #: levels of a finding, worst first
 LEVELS = ("fail", "caution", "pass")
 #: keys of a finding, in the order they are stored
@@ -145,6 +157,13 @@ def _entry(f: Field, entry: Any, where: str) -> dict:
             raise InputError(f"{where}.value", repr(value), f.allowed())
         return {"value": value}
     unit = _text(entry.get("unit", f.unit), f"{where}.unit", "a unit, as text")
+    dimension = f.list_dimension if f.dimension == "quantity_list" else f.dimension
+    try:  # the stored unit must measure the field's dimension ("bar" for a bore is refused)
+        units.to_si(1.0, dimension, f.key, default_unit=unit or None)
+    except InputError as exc:
+        first = value[0] if isinstance(value, list) and value else value
+        shown = f"{_g(first) if isinstance(first, float) else repr(first)} {unit}".strip()
+        raise InputError(where, safetext.excerpt(shown, 60), exc.allowed) from None
     if f.dimension == "quantity_list":
         out = {"value": _numbers(value, f"{where}.value"), "unit": unit}
         if not out["value"]:
@@ -153,10 +172,12 @@ def _entry(f: Field, entry: Any, where: str) -> dict:
             out["si"] = _numbers(entry["si"], f"{where}.si")
             if len(out["si"]) != len(out["value"]):
                 raise InputError(f"{where}.si", f"{len(out['si'])} values", f"{len(out['value'])} values, one per entry")
+            _agree([_as_si(v, unit, dimension, f.key) for v in out["value"]], out["si"], where, unit)
         return out
     out = {"value": _number(value, f"{where}.value"), "unit": unit}
     if "si" in entry:
         out["si"] = _number(entry["si"], f"{where}.si")
+        _agree([_as_si(out["value"], unit, dimension, f.key)], [out["si"]], where, unit)
     return out
 
 
@@ -324,7 +345,7 @@ def values_from_inputs(inputs: Mapping[str, Mapping[str, Any]]) -> dict:
     >>> values_from_inputs({"cylinder": {"bore": {"value": 5, "unit": "bar"}}})
     Traceback (most recent call last):
     ...
-    workbook.errors.InputError: cylinder.bore: got 5 bar; allowed: a length with a unit, e.g. 63 mm, 2.5 in (a pressure was given)
+    workbook.errors.InputError: inputs.cylinder.bore: got 5 bar; allowed: a length with a unit, e.g. 63 mm, 2.5 in (a pressure was given)
     """
     clean = _inputs(inputs, "inputs")
     out: dict = {}
@@ -453,6 +474,67 @@ class Study:
         return cls(**copy.deepcopy(dict(data)))
 
 
+# ---------------------------------------------------------------------------- one design
+def _entry_key(entry: Mapping):
+    """What makes two stored entries the same input: the SI value where there is one."""
+    if "si" in entry:
+        si = entry["si"]
+        return tuple(si) if isinstance(si, list) else si
+    value = entry.get("value")
+    return (tuple(value) if isinstance(value, list) else value), entry.get("unit")
+
+
+def _entry_text(entry: Mapping) -> str:
+    value = entry.get("value")
+    if isinstance(value, list):
+        value = ", ".join(f"{v:.6g}" for v in value)
+    elif isinstance(value, float):
+        value = f"{value:.6g}"
+    return f"{value} {entry.get('unit', '')}".strip()
+
+
+def _catalogue_order(inputs: Mapping) -> dict:
+    out = {}
+    for sec in SECTIONS:
+        if sec.key in inputs and inputs[sec.key]:
+            out[sec.key] = {f.key: inputs[sec.key][f.key] for f in sec.fields if f.key in inputs[sec.key]}
+    return out
+
+
+def _one_design(axis_inputs: dict, studies: dict) -> tuple[dict, dict]:
+    """Lift the axis inputs out of the studies into one block; refuse studies that disagree.
+
+    A study built by :meth:`~workbook.studies.base.Outcome.to_study` carries every input it
+    ran on. The axis sections go to the record (once); the study keeps only its own
+    settings (:data:`STUDY_SECTIONS`). Two studies that ran on different values of one axis
+    input cannot share a record: :class:`~workbook.errors.InputError` names the input.
+    """
+    merged = {sec: dict(entries) for sec, entries in axis_inputs.items()}
+    origin = {(sec, fld): "the record's inputs" for sec, entries in merged.items() for fld in entries}
+    out = {}
+    for key, study in studies.items():
+        axis_part = {sec: e for sec, e in study.inputs.items() if sec in _AXIS_KEYS}
+        if not axis_part:
+            out[key] = study
+            continue
+        for sec, entries in axis_part.items():
+            for fld, entry in entries.items():
+                have = merged.get(sec, {}).get(fld)
+                if have is None:
+                    merged.setdefault(sec, {})[fld] = entry
+                    origin[(sec, fld)] = f"study {key}"
+                elif _entry_key(have) != _entry_key(entry):
+                    label = BY_KEY[sec][fld].label
+                    raise InputError(
+                        f"studies.{key}.inputs.{sec}.{fld}",
+                        f"{label} {_entry_text(entry)} where {origin[(sec, fld)]} has {_entry_text(have)}",
+                        "one design per axis record: every study run on the same axis inputs (record "
+                        "from one panel, which re-runs every study, or run axisbook evaluate)")
+        own = {sec: e for sec, e in study.inputs.items() if sec not in _AXIS_KEYS}
+        out[key] = dataclasses.replace(study, inputs=own)
+    return _catalogue_order(merged), out
+
+
 # ---------------------------------------------------------------------------- record
 def _identity(identity: Any) -> dict:
     identity = _mapping(identity, "identity", "a mapping with " + ", ".join(IDENTITY.keys))
@@ -484,6 +566,7 @@ class Record:
     notes: list = dc_field(default_factory=list)
     library_version: str = __version__
     schema_version: int = SCHEMA_VERSION
+    inputs: Mapping[str, Mapping[str, Any]] = dc_field(default_factory=dict)
 
     def __post_init__(self):
         set_ = lambda k, v: object.__setattr__(self, k, v)  # noqa: E731
@@ -502,6 +585,8 @@ class Record:
             if not isinstance(study, Study):
                 raise InputError(f"studies.{key}", f"a {type(study).__name__}", "a Study")
             clean[key] = study
+        axis_inputs, clean = _one_design(_inputs(self.inputs, "inputs"), clean)
+        set_("inputs", axis_inputs)
         set_("studies", clean)
         set_("notes", _text_list(self.notes, "notes"))
         set_("library_version", _text(self.library_version, "library_version"))
@@ -509,6 +594,10 @@ class Record:
                 or self.schema_version not in SUPPORTED_SCHEMA_VERSIONS:
             raise InputError("schema_version", repr(self.schema_version),
                              "one of " + ", ".join(map(str, SUPPORTED_SCHEMA_VERSIONS)))
+        if self.schema_version < SCHEMA_VERSION:
+            set_("schema_version", SCHEMA_VERSION)
+            if MIGRATED_NOTE not in self.notes:
+                set_("notes", [*self.notes, MIGRATED_NOTE])
 
     def __getattr__(self, name: str):
         ident = self.__dict__.get("identity")
@@ -516,9 +605,25 @@ class Record:
             return ident[name]
         raise AttributeError(name)
 
+    def values(self) -> dict:
+        """The axis inputs as SI values ``{section: {field: SI}}``."""
+        return values_from_inputs(self.inputs)
+
+    def study_values(self, key: str) -> dict:
+        """What the study ``key`` ran on: the axis inputs and the study's own settings (SI)."""
+        if key not in self.studies:
+            raise InputError("study", repr(key), "one of " + ", ".join(self.studies))
+        out = self.values()
+        for sec, fields in self.studies[key].values().items():
+            out.setdefault(sec, {}).update(fields)
+        return out
+
     def with_study(self, study: Study, key: str | None = None) -> "Record":
         """A new record with ``study`` added under ``key`` (default: its kind), or replacing
-        the study of that key in place; every other study and note is kept."""
+        the study of that key in place; every other study and note is kept.
+
+        A study that ran on other axis inputs than the record's is refused
+        (:class:`~workbook.errors.InputError`): a record holds one design."""
         key = study.kind if key is None else key
         studies = dict(self.studies)
         studies[key] = study
@@ -547,6 +652,7 @@ class Record:
             "library_version": self.library_version,
             "caution": CAUTION,
             "identity": dict(self.identity),
+            "inputs": copy.deepcopy(self.inputs),
             "studies": [{"key": k, **s.to_dict()} for k, s in self.studies.items()],
             "notes": list(self.notes),
         }
@@ -571,6 +677,7 @@ class Record:
                 studies[key] = s
         return cls(
             identity=data.get("identity", {}),
+            inputs=data.get("inputs", {}),
             studies=studies,
             notes=list(data.get("notes", [])),
             library_version=data.get("library_version", __version__),
@@ -580,5 +687,5 @@ class Record:
 
 __all__ = [
     "Record", "Study", "inputs_from_values", "values_from_inputs", "finding_entry",
-    "SCHEMA_VERSION", "SUPPORTED_SCHEMA_VERSIONS", "LEVELS", "FINDING_KEYS",
+    "SCHEMA_VERSION", "SUPPORTED_SCHEMA_VERSIONS", "LEVELS", "FINDING_KEYS", "STUDY_SECTIONS", "MIGRATED_NOTE",
 ]

@@ -1,6 +1,7 @@
 """The JSON Schema of the design record (JSON Schema Draft 2020-12).
 
-The shipped file ``schema/record-1.json`` describes the structure. Its identity and inputs
+The shipped files ``schema/record-<version>.json`` describe the structure (version 2 is
+written; version 1, where every study held every axis input, is still read and migrated). Its identity and inputs
 parts are generic; :func:`record_schema` fills them in from the catalogue of
 :mod:`workbook.inputs` (each field's own :meth:`~workbook.fields.Field.json_schema`), so
 adding a field to the catalogue is all it takes for records to carry it.
@@ -8,7 +9,7 @@ adding a field to the catalogue is all it takes for records to carry it.
 >>> s = record_schema()
 >>> s["$defs"]["inputs"]["properties"]["cylinder"]["properties"]["bore"]["required"]
 ['value', 'unit']
->>> first_problem({"schema_version": 1})
+>>> first_problem({"schema_version": 2})
 ('', "'library_version' is a required property", 'library_version')
 """
 
@@ -22,13 +23,16 @@ from importlib import resources
 from ..fields import Field
 from ..inputs import IDENTITY, SECTIONS
 
-SCHEMA_FILE = "record-1.json"
+#: schema version -> shipped schema file
+SCHEMA_FILES = {1: "record-1.json", 2: "record-2.json"}
+#: the file of the version this library writes
+SCHEMA_FILE = SCHEMA_FILES[2]
 
 
-@lru_cache(maxsize=1)
-def shipped_schema_text() -> str:
-    """Text of the shipped schema file (package data)."""
-    return (resources.files("workbook.record") / "schema" / SCHEMA_FILE).read_text(encoding="utf-8")
+@lru_cache(maxsize=4)
+def shipped_schema_text(version: int = 2) -> str:
+    """Text of the shipped schema file of ``version`` (package data)."""
+    return (resources.files("workbook.record") / "schema" / SCHEMA_FILES[version]).read_text(encoding="utf-8")
 
 
 def _value_schema(f: Field) -> dict:
@@ -56,9 +60,9 @@ def field_entry_schema(f: Field) -> dict:
             "description": f.label}
 
 
-@lru_cache(maxsize=1)
-def _record_schema() -> dict:
-    schema = json.loads(shipped_schema_text())
+@lru_cache(maxsize=4)
+def _record_schema(version: int = 2) -> dict:
+    schema = json.loads(shipped_schema_text(version))
     defs = schema["$defs"]
     defs["identity"] = {
         "description": defs["identity"]["description"],
@@ -83,17 +87,17 @@ def _record_schema() -> dict:
     return schema
 
 
-def record_schema() -> dict:
+def record_schema(version: int = 2) -> dict:
     """The full schema: the shipped file with identity and inputs from the catalogue (a copy)."""
-    return copy.deepcopy(_record_schema())
+    return copy.deepcopy(_record_schema(version))
 
 
-@lru_cache(maxsize=1)
-def validator():
+@lru_cache(maxsize=4)
+def validator(version: int = 2):
     """A :class:`jsonschema.Draft202012Validator` of :func:`record_schema` (built once)."""
     import jsonschema
 
-    schema = _record_schema()
+    schema = _record_schema(version)
     jsonschema.Draft202012Validator.check_schema(schema)
     return jsonschema.Draft202012Validator(schema)
 
@@ -106,7 +110,9 @@ def first_problem(document) -> tuple[str, str, str] | None:
     """
     import jsonschema
 
-    errors = list(validator().iter_errors(document))
+    version = document.get("schema_version") if isinstance(document, dict) else None
+    version = version if version in SCHEMA_FILES and not isinstance(version, bool) else max(SCHEMA_FILES)
+    errors = list(validator(version).iter_errors(document))
     if not errors:
         return None
     err = jsonschema.exceptions.best_match(errors)
@@ -135,4 +141,5 @@ def first_problem(document) -> tuple[str, str, str] | None:
     return path, message, part
 
 
-__all__ = ["record_schema", "shipped_schema_text", "validator", "first_problem", "field_entry_schema", "SCHEMA_FILE"]
+__all__ = ["record_schema", "shipped_schema_text", "validator", "first_problem", "field_entry_schema", "SCHEMA_FILE",
+           "SCHEMA_FILES"]

@@ -23,6 +23,7 @@ import numpy as np
 from .. import CAUTION, inputs, units
 from ..errors import InputError
 from ..record import Study, inputs_from_values
+from ..record.model import STUDY_SECTIONS
 
 LEVEL_ORDER = {"fail": 0, "caution": 1, "pass": 2}
 
@@ -156,14 +157,16 @@ class Outcome:
 
         The study's FIELDS (what its panel shows) come first; every other field of the axis
         sections follows, so that a re-check re-runs on exactly these inputs and never on a
-        catalogue default that the design had changed.
+        catalogue default that the design had changed. Of the study's own settings (the
+        ``study`` section) only those in its FIELDS are kept. A record lifts the axis sections
+        into its one block of axis inputs (:class:`~workbook.record.Record`).
         """
         out: dict = {}
         for section, key in self.fields:
             out.setdefault(section, {})[key] = self.values[section][key]
         for sec in inputs.AXIS_SECTIONS:
-            if sec.key not in self.values:
-                continue
+            if sec.key not in self.values or sec.key in STUDY_SECTIONS:
+                continue  # of the study's own settings, only those it uses (its FIELDS)
             for f in sec.fields:
                 if f.key in self.values[sec.key]:
                     out.setdefault(sec.key, {}).setdefault(f.key, self.values[sec.key][f.key])

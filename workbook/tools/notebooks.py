@@ -5,6 +5,8 @@ the library as it is now (nbclient), keeps the text outputs that nbval compares,
 outputs of widget cells (their model ids change on every run) and the saved widget state,
 and writes the notebooks back, small and free of absolute paths.
 
+Creating rewrites a notebook whose cells no longer follow the template (``create --force``).
+
 ``python -m workbook.tools.notebooks create notebooks`` writes a study notebook from the
 template of each study in :data:`STUDIES` when it does not exist yet.
 """
@@ -46,7 +48,7 @@ STUDIES = {
         "margins, and what to change when a case fails.",
         "With the meter-out valve closed the rod side sees supply pressure times the area ratio, "
         "plus a pulling load over the annulus: check it against the cylinder, hose and valve ratings.",
-        'panel.set("cylinder.rod", "36 mm")',
+        'panel.set("cylinder.rod", "40 mm")',
     ),
     "4-counterbalance-setting.ipynb": (
         "counterbalance", "lift", "Counterbalance setting",
@@ -55,44 +57,54 @@ STUDIES = {
         "series, and the ratings check of the chosen setting.",
         "A low pilot ratio is steadier with an unstable load; a high ratio wastes less energy. The "
         "back-pressure valve costs its setting times the flow as heat all the time.",
-        'panel.set("holding.setting", "30 bar")',
+        'panel.set("holding.setting", "35 bar")',
     ),
 }
 
 DESIGN = "designs/bin-tipper.toml"
 
 
+#: the nbval tag of the panel cell (widget model ids change on every run)
+IGNORE_TAG = "nbval-ignore-output"
+
+
 def _cells(kind, axis, title, purpose, hint, try_line):
     import nbformat.v4 as nbf
 
+    panel = nbf.new_code_cell(
+        "from workbook.ui import open_study\n\n"
+        f'panel = open_study("{kind}", "{DESIGN}", axis="{axis}")\n'
+        "panel.show()")
+    panel.metadata["tags"] = [IGNORE_TAG]
     return [
         nbf.new_markdown_cell(
             f"# {title}\n\n{purpose}\n\n> **Caution.** {CAUTION.removeprefix('Caution: ')}\n\n"
-            f"Design: `{DESIGN}`, axis `{axis}` (an invented bin tipper). Type values with units "
-            "(\"80 mm\", \"3.15 in\", \"160 bar\", \"2300 psi\"); a refused entry is explained beside "
-            "its field and the last valid results stay, marked out of date. **Record study** writes "
-            "this study into the axis's design record; **Export HTML** writes its review copy."),
-        nbf.new_code_cell(
-            "# NBVAL_IGNORE_OUTPUT\n"
-            "from workbook.ui import open_study\n\n"
-            f'panel = open_study("{kind}", "{DESIGN}", axis="{axis}")\n'
-            "panel.show()"),
-        nbf.new_markdown_cell(f"{hint}\n\nThe entry below is where a scripted change goes; "
-                              "the panel above shows the same values."),
-        nbf.new_code_cell(try_line),
-        nbf.new_markdown_cell("## Summary\n\nInputs, results and findings as plain text; nbval "
-                              "compares this output on every test run."),
+            f"Design: `{DESIGN}`, axis `{axis}` (an invented bin tipper). The panel opens on the design "
+            "file's values and shows, at the top, the verdict of the whole axis (every study of the axis, "
+            "the same findings as `axisbook evaluate`). Type values with units (\"80 mm\", \"3.15 in\", "
+            "\"160 bar\", \"2300 psi\"); a refused entry is explained beside its field and the last valid "
+            "results stay, marked out of date. **Record study** re-runs every study on the panel's inputs, "
+            "writes the axis record and writes the changed inputs into the design file; **Export HTML** "
+            "writes the record's review copy."),
+        panel,
+        nbf.new_markdown_cell(
+            f"{hint}\n\nTo change an input from code, add a cell such as `{try_line}`: the panel above "
+            "follows it, and **Record study** writes it into the design file. The cells of this notebook "
+            "never change the design."),
+        nbf.new_markdown_cell("## Summary\n\nThe whole axis's verdict, then this study's inputs, results and "
+                              "findings as plain text; nbval compares this output on every test run."),
         nbf.new_code_cell("print(panel.summary())"),
     ]
 
 
-def create(folder: Path) -> list[Path]:
+def create(folder: Path, force: bool = False) -> list[Path]:
+    """Write the notebook of every study in :data:`STUDIES` that has none (all with ``force``)."""
     import nbformat
 
     written = []
     for name, spec in STUDIES.items():
         path = folder / name
-        if path.exists():
+        if path.exists() and not force:
             continue
         nb = nbformat.v4.new_notebook()
         nb.cells = _cells(*spec)
@@ -110,7 +122,7 @@ def _strip(nb) -> None:
         if cell.cell_type != "code":
             continue
         cell.metadata.pop("execution", None)
-        if cell.source.lstrip().startswith("# NBVAL_IGNORE_OUTPUT"):
+        if IGNORE_TAG in cell.metadata.get("tags", ()):
             cell.outputs = []
         else:
             cell.outputs = [o for o in cell.outputs if o.get("output_type") == "stream"
@@ -145,11 +157,12 @@ def main(argv=None) -> int:
                                      formatter_class=argparse.RawDescriptionHelpFormatter)
     parser.add_argument("action", choices=("create", "refresh"))
     parser.add_argument("folder", type=Path, nargs="?", default=Path("notebooks"))
+    parser.add_argument("--force", action="store_true", help="rewrite existing notebooks from the template")
     args = parser.parse_args(argv)
     if args.action == "create":
-        paths = create(args.folder)
+        paths = create(args.folder, force=args.force)
     else:
-        create(args.folder)
+        create(args.folder, force=args.force)
         paths = refresh(args.folder)
     for p in paths:
         print(f"{args.action}: {p}")

@@ -1,10 +1,18 @@
 """A study panel: input controls, live results, findings and figures, record and export.
 
-The panel holds no physics: it collects the values of its study's fields, calls the study's
-``run`` (the same function the tests and the command line call) and shows the outcome. When
-an entry is refused, the field shows why and the last valid results stay on screen, marked
-out of date. The record action writes the study into the axis's design record atomically;
-the export action writes the HTML review copy beside it.
+The panel holds no physics. On every entry it runs every study of the axis on its values
+through :func:`workbook.studies.whole_axis.evaluate` (the call the command line and the
+record make, about a second for all of them at most) and shows, at the top, the verdict of
+the whole axis (every fail and caution once, worded as the breach), then its own study's
+results, findings and figures. When an entry is refused, the field shows why and the last
+valid results stay on screen, marked out of date.
+
+One design per axis: **Record study** re-runs every study on the panel's inputs and writes
+the axis record (the inputs once, every study; atomic), and writes the inputs that differ
+from the design file back into it (comments and layout kept, :mod:`workbook.design_edit`);
+before that the panel lists those differences. **Export HTML** writes the review copy of
+the record. Both are refused, with the reason, while the results are out of date; Export
+also while the record holds other inputs than the panel.
 
 >>> from workbook import inputs
 >>> from workbook.studies import sizing
@@ -32,10 +40,15 @@ import ipywidgets as W
 import numpy as np
 
 from .. import inputs
+from ..design_edit import design_changes, write_inputs
 from ..errors import InputError
+from ..studies.whole_axis import DEFAULT_STUDIES, evaluate
 from .controls import QuantityControl, control_for, css_name
 from .plots import LivePlot
-from .tables import HtmlBox, caution_html, findings_html, results_html
+from .tables import HtmlBox, caution_html, differences_html, findings_html, results_html, verdict_html
+
+#: record notes written by the workbook itself (replaced, not kept, when a panel records)
+_AUTO_NOTES = ("Evaluated from ", "Recorded from the ", "Migrated from record schema")
 
 
 _BOKEHJS_LOADED = False
@@ -81,19 +94,32 @@ class StudyPanel:
     """
 
     def __init__(self, study, values: Mapping, identity: Mapping | None = None,
-                 record_path: str | os.PathLike | None = None, export_path: str | os.PathLike | None = None):
+                 record_path: str | os.PathLike | None = None, export_path: str | os.PathLike | None = None,
+                 *, design_values: Mapping | None = None, design_path: str | os.PathLike | None = None,
+                 axis_key: str | None = None, record_values: Mapping | None = None, record_problem: str = "",
+                 kinds=DEFAULT_STUDIES):
         self.study = study
         self.values = copy.deepcopy({k: dict(v) for k, v in values.items()})
+        # what the design file says: the panel lists where its inputs differ from it
+        self.design_values = copy.deepcopy({k: dict(v) for k, v in (design_values or values).items()})
+        self.design_path = Path(design_path) if design_path else None
+        self.axis_key = axis_key or (identity or {}).get("axis", "")
+        # the record's values, when they differ from the design file (offered, never applied)
+        self.record_values = copy.deepcopy(record_values) if record_values else None
+        self.record_problem = record_problem
+        self.kinds = tuple(kinds)
         self.identity = dict(identity or {})
         self.record_path = Path(record_path) if record_path else None
         self.export_path = Path(export_path) if export_path else None
         self.outcome = None
+        self.evaluation = None
         self.error: InputError | None = None
         self.stale = False
         self.compute_count = 0
         self.controls: dict[tuple[str, str], QuantityControl] = {}
         self.plots: dict[str, LivePlot] = {}
         self._build()
+        self._show_record_notice()
         self.recompute()
 
     # ----------------------------------------------------------------- layout
@@ -142,10 +168,25 @@ class StudyPanel:
         self.export_button.on_click(lambda _b: self._safe(self.export))
         caution = W.HTML(caution_html())
         caution.add_class("wb-caution-box")
+        # the record's values, when they differ from the design file: said, never applied
+        self.notice = W.HTML("")
+        self.notice.add_class("wb-record-notice")
+        self.use_record_button = W.Button(description="Use the record's values", icon="history",
+                                          tooltip="load the values of the axis record into this panel")
+        self.use_record_button.add_class("wb-use-record")
+        self.keep_file_button = W.Button(description="Keep the design file's values",
+                                         tooltip="dismiss this notice; the panel keeps the design file's values")
+        self.keep_file_button.add_class("wb-keep-file")
+        self.use_record_button.on_click(lambda _b: self.load_record_values())
+        self.keep_file_button.on_click(lambda _b: self.dismiss_record_notice())
+        self.notice_box = W.VBox([self.notice, W.HBox([self.use_record_button, self.keep_file_button])])
+        self.notice_box.add_class("wb-record-notice-box")
+        self.verdict_box = HtmlBox("wb-verdict-box")
+        self.changes_box = HtmlBox("wb-changes-box")
         self.widget = W.VBox([
-            caution, self.form, self.status,
+            caution, self.notice_box, self.verdict_box.widget, self.form, self.status,
             self.results_box.widget, self.findings_box.widget,
-            self.plot_note, self.plot_area,
+            self.plot_note, self.plot_area, self.changes_box.widget,
             W.HBox([self.note, W.VBox([self.record_button, self.export_button])]),
             self.record_status,
         ])
@@ -171,32 +212,112 @@ class StudyPanel:
         self.recompute()
 
     def recompute(self) -> bool:
-        """Run the study on the current values; return whether it succeeded."""
+        """Run every study of the axis on the current values; return whether this panel's
+        study succeeded (the verdict then covers the whole axis at these inputs)."""
         bad = [c for c in self.controls.values() if not c.valid]
         if bad:
             self._mark_stale(f"{bad[0].section}.{bad[0].field.key} was not accepted.")
             return False
+        kind = self.study.KIND
+        ev = evaluate(self.values, self.kinds)
         try:
-            # the outcome keeps its own copy: later entries must not rewrite the inputs it shows
-            outcome = self.study.run(copy.deepcopy(self.values))
+            if kind in ev.refused:
+                raise ev.refused[kind]
+            outcome = ev.outcomes.get(kind)
+            if outcome is None:
+                # a study that does not apply to the axis as designed (the counterbalance
+                # study on an axis without one) still answers in its own panel
+                outcome = self.study.run(copy.deepcopy(self.values))
         except InputError as exc:
             self.error = exc
             target = self._control_named(exc.field)
             if target is not None:
                 target._set_valid(False, exc.allowed, exc.given)
                 target.valid = True  # a cross-field refusal: the entry itself parsed
-            self._mark_stale(f"{exc}")
+            self._mark_stale(f"{exc}")   # the last valid verdict stays, marked out of date
             return False
         self.error = None
         self.outcome = outcome
+        self.evaluation = ev
         self.compute_count += 1
         self.stale = False
         self.status.value = ""
         self.plot_note.value = ""
+        self.verdict_box.update(verdict_html(ev.verdict()))
         self.results_box.update(results_html(outcome.results))
-        self.findings_box.update(findings_html(outcome.findings))
+        self.findings_box.update(findings_html(outcome.findings, title=f"Checks of this study ({self.study.TITLE})"))
         self._update_plots(outcome)
+        self._show_changes()
         return True
+
+    # ----------------------------------------------------------------- design file and record
+    def _difference_rows(self, first: Mapping, second: Mapping) -> list[tuple]:
+        rows = []
+        for sec, key, a, b in design_changes(first, second):
+            f = inputs.section(sec)[key]
+            rows.append((f.label, inputs.section(sec).title, _text(f, a), _text(f, b)))
+        return rows
+
+    def changes_from_design(self) -> list[tuple]:
+        """``[(section, key, file value, panel value)]``: the inputs Record would write into
+        the design file."""
+        return design_changes(self.design_values, self.values)
+
+    def _show_changes(self) -> None:
+        rows = self._difference_rows(self.design_values, self.values)
+        name = self.design_path.name if self.design_path else "the design file"
+        self.changes_box.update(differences_html(
+            rows, (f"Inputs that differ from {name} (Record study writes them into it):", "Design file", "This panel"),
+            empty=f"Every input is as {name} gives it."))
+
+    def _show_record_notice(self) -> None:
+        if self.record_problem:
+            self.notice.value = ("<div style='border-left:4px solid #8a0010;padding:4px 10px;background:#fde7e9'>"
+                                 f"&#9888; The axis record could not be read: {html.escape(self.record_problem)}. "
+                                 "The panel shows the design file's values; Record study is refused until the "
+                                 "record is repaired or moved away, so nothing recorded is lost.</div>")
+            self.use_record_button.layout.display = "none"
+            self.keep_file_button.layout.display = "none"
+            self.notice_box.layout.display = None
+            return
+        if not self.record_values:
+            self.notice_box.layout.display = "none"
+            return
+        rows = self._difference_rows(self.design_values, self.record_values)
+        name = self.record_path.name if self.record_path else "the axis record"
+        file = self.design_path.name if self.design_path else "the design file"
+        self.notice.value = (
+            "<div style='border-left:4px solid #6b4a00;padding:4px 10px;background:#fff4d6'>"
+            f"&#9650; <b>The axis record {html.escape(name)} holds other values than {html.escape(file)}.</b> "
+            "The panel shows the design file's values; nothing of the record is applied unless you choose it."
+            + differences_html(rows, ("", "Design file", "Record")) + "</div>")
+        self.use_record_button.layout.display = None
+        self.keep_file_button.layout.display = None
+        self.notice_box.layout.display = None
+
+    def load_record_values(self) -> bool:
+        """Put the record's values into the panel (the design file is written only on Record)."""
+        if not self.record_values:
+            return False
+        for sec, fields in self.record_values.items():
+            for key, value in fields.items():
+                if sec not in self.values:
+                    continue
+                self.values[sec][key] = value
+                ctl = self.controls.get((sec, key))
+                if ctl is not None:
+                    ctl.set_value(value)
+        self.record_values = None
+        self.notice_box.layout.display = "none"
+        ok = self.recompute()
+        self.record_status.value = ("<span class='wb-loaded'>Loaded the record's values. The design file changes "
+                                    "only when you press Record study.</span>")
+        return ok
+
+    def dismiss_record_notice(self) -> None:
+        """Keep the design file's values and hide the notice."""
+        self.record_values = None
+        self.notice_box.layout.display = "none"
 
     def _control_named(self, name: str):
         for (section, key), ctl in self.controls.items():
@@ -208,6 +329,7 @@ class StudyPanel:
         self.stale = True
         self.status.value = (f"<div style='color:#8a0010'>&#9888; {html.escape(why)} "
                              "Results below are out of date.</div>")
+        self.verdict_box.mark_stale()
         self.results_box.mark_stale()
         self.findings_box.mark_stale()
         self.plot_note.value = ("<div class='wb-stale-note' style='color:#8a0010;font-weight:bold'>"
@@ -242,39 +364,88 @@ class StudyPanel:
                                         f"{html.escape(str(exc))}</span>")
 
     def _current_record(self):
-        from ..record import Record, load
+        from ..record import load
 
         if self.record_path is not None and self.record_path.exists():
             return load(self.record_path)
-        return Record(self.identity)
+        return None
+
+    def _refuse_if_stale(self, action: str) -> None:
+        if self.stale or self.outcome is None:
+            why = f" ({self.error})" if self.error is not None else ""
+            raise InputError(action, "out-of-date results" + why,
+                             f"valid entries in every field before you {action.lower()} (fix the marked field)")
+        if self.evaluation is not None and self.evaluation.refused:
+            kind, exc = next(iter(self.evaluation.refused.items()))
+            raise InputError(action, f"inputs the {kind} study refuses ({exc})",
+                             "inputs every study of the axis accepts")
 
     def record(self):
-        """Write this study into the axis record (atomic); return the record."""
+        """Re-run every study of the axis on the panel's inputs and write the axis record
+        (atomic); write the changed inputs into the design file first. Return the record."""
         from ..record import save
 
         if self.record_path is None:
             raise InputError("record file", "none", "a panel opened with a record path")
-        if self.stale or self.outcome is None:
-            raise InputError("record", "out-of-date results",
-                             "valid entries in every field before recording (fix the marked field)")
-        notes = [self.note.value.strip()] if self.note.value.strip() else []
-        rec = self._current_record().with_study(self.outcome.to_study(notes=notes), key=self.study.KIND)
+        self._refuse_if_stale("Record")
+        existing = self._current_record()   # a damaged record refuses here: nothing is lost
+        ev = evaluate(self.values, self.kinds)
+        if ev.refused:
+            kind, exc = next(iter(ev.refused.items()))
+            raise InputError("Record", f"inputs the {kind} study refuses ({exc})", "inputs every study accepts")
+        note = self.note.value.strip()
+        study_notes = {k: list(s.notes) for k, s in (existing.studies.items() if existing else ())}
+        if note:
+            study_notes.setdefault(self.study.KIND, []).append(note)
+        kept = [n for n in (existing.notes if existing else ()) if not n.startswith(_AUTO_NOTES)
+                and " study left out: " not in n]
+        source = self.design_path.name if self.design_path else "a design file"
+        notes = [f"Recorded from the {self.study.TITLE} panel on {source}, axis {self.axis_key}; every study "
+                 "re-run on these inputs.", *kept]
+        rec = ev.to_record(self.identity, notes=notes, study_notes=study_notes)
+        written = []
+        if self.design_path is not None and self.changes_from_design():
+            typed = {k: c.entry.value for k, c in self.controls.items() if isinstance(c.entry, W.Text)}
+            written = write_inputs(self.design_path, self.axis_key, self.values, typed)
         self.record_path.parent.mkdir(parents=True, exist_ok=True)
         save(rec, self.record_path)
-        self.record_status.value = (f"<span class='wb-recorded'>Recorded <b>{html.escape(self.study.TITLE)}</b> "
-                                    f"into {html.escape(self.record_path.name)} "
-                                    f"({len(rec.studies)} studies in the record).</span>")
+        self.design_values = copy.deepcopy(self.values)
+        self.record_values = None
+        self.notice_box.layout.display = "none"
+        self.note.value = ""
+        self._show_changes()
+        also = ""
+        if written:
+            keys = ", ".join(k.rsplit(".", 2)[-2] + "." + k.rsplit(".", 1)[-1] for k in written)
+            also = f"; wrote {len(written)} changed input(s) into {html.escape(self.design_path.name)}: {html.escape(keys)}"
+        self.record_status.value = (f"<span class='wb-recorded'>Recorded the axis into "
+                                    f"{html.escape(self.record_path.name)}: {len(rec.studies)} studies, all on "
+                                    f"these inputs{also}.</span>")
         return rec
 
     def export(self):
-        """Write the HTML review copy of the axis record; return its path."""
+        """Write the HTML review copy of the axis record; return its path.
+
+        Refused while the results are out of date, when nothing is recorded yet, and when the
+        record holds other inputs than the panel (record first, so the copy shows this design).
+        """
         from ..record import export_html
 
         if self.export_path is None:
             raise InputError("export file", "none", "a panel opened with an export path")
+        self._refuse_if_stale("Export")
         rec = self._current_record()
-        if self.study.KIND not in rec.studies and self.outcome is not None and not self.stale:
-            rec = rec.with_study(self.outcome.to_study(), key=self.study.KIND)
+        if rec is None:
+            raise InputError("Export", "no axis record yet", "a recorded axis: press Record study first")
+        recorded = rec.study_values(self.study.KIND) if self.study.KIND in rec.studies else rec.values()
+        moved = [(s, k) for s, k, _a, _b in design_changes(recorded, self.values) if k in recorded.get(s, {})]
+        if moved:
+            s, k = moved[0]
+            label = inputs.section(s)[k].label
+            raise InputError("Export", f"a record made with other inputs than this panel ({label} and "
+                             f"{len(moved) - 1} more)" if len(moved) > 1 else
+                             f"a record made with another {label} than this panel",
+                             "a record of these inputs: press Record study first, so the review copy shows this design")
         self.export_path.parent.mkdir(parents=True, exist_ok=True)
         export_html(rec, self.export_path)
         self.record_status.value = (f"<span class='wb-exported'>Exported the review copy to "
@@ -298,13 +469,35 @@ class StudyPanel:
 
     # ----------------------------------------------------------------- text
     def summary(self) -> str:
-        """Deterministic plain-text summary of inputs, results and findings."""
+        """Deterministic plain text: the whole axis's verdict, the inputs that differ from the
+        design file, then this study's inputs, results and findings."""
         if self.outcome is None:
             return f"{self.study.TITLE}: no valid result yet ({self.error})"
-        text = self.outcome.summary()
+        lines = []
+        if self.evaluation is not None:
+            lines += ["Whole-axis verdict (every study of this axis at these inputs):",
+                      self.evaluation.verdict().to_text(), ""]
+        # the inputs of the results shown (the last valid ones while an entry is refused)
+        shown = self.evaluation.values if self.evaluation is not None else self.outcome.values
+        changes = self._difference_rows(self.design_values, shown)
+        if changes:
+            lines.append("Inputs that differ from the design file:")
+            lines += [f"  {lbl} ({sec}): {a} in the file, {b} here" for lbl, sec, a, b in changes]
+        else:
+            lines.append("Every input is as the design file gives it.")
+        text = "\n".join(lines) + "\n\n" + self.outcome.summary()
         if self.stale:
             text += "\n\n(out of date: an entry was not accepted)"
         return text
+
+
+def _text(f, value) -> str:
+    if value is None:
+        return "(not given)"
+    try:
+        return f.as_text(value, digits=4)
+    except (TypeError, ValueError, InputError):
+        return str(value)
 
 
 __all__ = ["StudyPanel"]

@@ -93,6 +93,62 @@ def findings_html(findings: Iterable[Mapping], title: str = "Checks") -> str:
             + "".join(rows) + "</table></div>")
 
 
+def verdict_html(v, title: str = "Whole axis") -> str:
+    """The whole axis's verdict (:class:`workbook.record.verdict.Verdict`): the counts, then
+    every fail and caution worded as the breach, its worst case, margin, source and the
+    studies that found it; studies that could not run on these inputs are named."""
+    from ..record.verdict import margin_text
+
+    lvl = v.level
+    c = v.counts
+    head = (f"<div class='wb-verdict-head' style='{LEVEL_STYLE.get(lvl, '')};padding:3px 8px'>"
+            f"<span class='wb-verdict-level'>{LEVEL_MARK.get(lvl, lvl)}</span> "
+            f"<b>{html.escape(title)}</b>: <span class='wb-verdict-counts'>{c['fail']} fail, "
+            f"{c['caution']} caution, {c['pass']} pass</span>"
+            "<span style='font-weight:normal'> (every study of this axis at the inputs below; the same "
+            "findings as the record and <code>axisbook evaluate</code>)</span></div>")
+    rows = []
+    for item in v.items:
+        case = (f"<br><span style='color:#555;font-size:90%'>{html.escape(item.case)}</span>"
+                if item.case else "")
+        rows.append(
+            f"<tr class='wb-verdict-item wb-level-{item.level}' data-rules='{html.escape(' '.join(item.rule_ids))}'>"
+            f"<td style='{LEVEL_STYLE.get(item.level, '')};white-space:nowrap;padding:2px 6px'>"
+            f"{LEVEL_MARK.get(item.level, item.level)}</td>"
+            f"<td style='padding:2px 6px'>{html.escape(item.text)}{case}</td>"
+            f"<td style='text-align:right;white-space:nowrap;padding:2px 6px'>{html.escape(margin_text(item.margin))}</td>"
+            f"<td style='color:#444;padding:2px 6px;font-size:90%'>{html.escape(item.source)}<br>"
+            f"<span style='color:#666'>found by {html.escape(item.found_by)}</span></td></tr>")
+    for study, why in v.incomplete:
+        rows.append(f"<tr class='wb-verdict-item wb-level-notrun'><td style='{LEVEL_STYLE['fail']};padding:2px 6px'>"
+                    f"&#9888; NOT RUN</td><td colspan='3' style='padding:2px 6px'>The {html.escape(study)} study "
+                    f"refuses these inputs: {html.escape(why)}</td></tr>")
+    table = ""
+    if rows:
+        table = ("<table style='border-collapse:collapse;width:100%;font-size:92%'>"
+                 "<tr><th>Level</th><th style='text-align:left'>Breach and worst case</th><th>Margin</th>"
+                 "<th style='text-align:left'>Source</th></tr>" + "".join(rows) + "</table>")
+    return f"<div class='wb-verdict'>{head}{table}</div>"
+
+
+def differences_html(rows, title: str, empty: str = "") -> str:
+    """A table of inputs that differ: ``rows`` of (label, section title, first text, second text),
+    with ``title`` naming the two columns as ``(heading, first, second)``."""
+    heading, first, second = title
+    if not rows:
+        return f"<div class='wb-differences wb-none' style='color:#555'>{html.escape(empty)}</div>" if empty else ""
+    body = "".join(
+        f"<tr class='wb-difference'><td style='padding:1px 8px'>{html.escape(lbl)}"
+        f"<span style='color:#666'> ({html.escape(sec)})</span></td>"
+        f"<td style='padding:1px 8px;font-family:monospace'>{html.escape(a)}</td>"
+        f"<td style='padding:1px 8px;font-family:monospace'>{html.escape(b)}</td></tr>"
+        for lbl, sec, a, b in rows)
+    return (f"<div class='wb-differences'><b>{html.escape(heading)}</b>"
+            f"<table style='border-collapse:collapse'><tr><th style='text-align:left;padding:1px 8px'>Input</th>"
+            f"<th style='text-align:left;padding:1px 8px'>{html.escape(first)}</th>"
+            f"<th style='text-align:left;padding:1px 8px'>{html.escape(second)}</th></tr>{body}</table></div>")
+
+
 class HtmlBox:
     """An HTML widget with a stale flag; :meth:`update` replaces its content in place."""
 
@@ -112,4 +168,5 @@ class HtmlBox:
         self.widget.value = (STALE_NOTE + f"<div style='opacity:0.55'>{self._body}</div>") if stale else self._body
 
 
-__all__ = ["results_html", "findings_html", "caution_html", "HtmlBox", "number", "LEVEL_MARK"]
+__all__ = ["results_html", "findings_html", "caution_html", "verdict_html", "differences_html", "HtmlBox", "number",
+           "LEVEL_MARK"]
