@@ -80,3 +80,33 @@ def test_natural_frequency_minimum_is_inside_stroke():
     assert 0 < i < len(x) - 1
     v1, v3 = c.a1 * x[i], c.a3 * (1 - x[i])
     assert w[i] == pytest.approx(math.sqrt(1.4e9 / 800 * (c.a1 ** 2 / v1 + c.a3 ** 2 / v3)))
+
+
+def test_short_rod_johnson_below_the_euler_limit():
+    """Johnson parabola (J. B. Johnson; Shigley, Mechanical Engineering Design): below the
+    transition slenderness lambda_c = pi sqrt(2 E / s_y) the critical stress is
+    s_y - (s_y lambda / (2 pi))^2 / E, tangent to Euler's pi^2 E / lambda^2 at lambda_c.
+
+    By hand, 36 mm rod, 355 MPa, pinned, 0.5 m: lambda = 0.5 / 0.009 = 55.6 < 108.1;
+    s = 355e6 - (355e6 * 55.56 / (2 pi))^2 / 2.1e11 = 355e6 - 46.92e6 = 308.1 MPa; A_rod =
+    10.179 cm^2; F = 313.6 kN, where Euler (I = pi 0.036^4 / 64 = 8.2448e-8 m^4,
+    pi^2 2.1e11 I / 0.5^2 = 683.5 kN) would claim more than twice as much."""
+    c = Cylinder(0.063, 0.036, 0.2, 210e5)
+    assert c.slenderness(0.5) == pytest.approx(55.556, rel=1e-4)
+    assert c.transition_slenderness() == pytest.approx(108.06, rel=1e-3)
+    assert c.buckling_load(0.5) == pytest.approx(313.6e3, rel=1e-3)
+    assert c.euler_buckling_load(length=0.5) == pytest.approx(683.5e3, rel=1e-3)
+    # the two laws meet at the transition: half the yield stress on the rod area
+    lc = c.transition_slenderness() * 0.009
+    assert c.buckling_load(lc * (1 - 1e-9)) == pytest.approx(c.rod_area * 355e6 / 2, rel=1e-6)
+    assert c.buckling_load(lc * (1 + 1e-9)) == pytest.approx(c.rod_area * 355e6 / 2, rel=1e-6)
+
+
+def test_buckling_length_estimate_is_longer_than_twice_a_short_stroke():
+    """With no pin-to-pin length given the extended length is taken as stroke + closed length,
+    the closed length stroke + 4 bores (from memory: heads, piston, guide and pin eyes take
+    three to four bores): 100 mm stroke, 63 mm bore -> 0.452 m, more than twice the stroke
+    (0.2 m), which would under-estimate a short cylinder's length."""
+    c = Cylinder(0.063, 0.036, 0.1)
+    assert c.free_length == pytest.approx(0.452) and c.length_estimated
+    assert Cylinder(0.063, 0.036, 0.1, buckling_length=0.3).free_length == 0.3

@@ -14,7 +14,9 @@ C = 273.15
 
 @pytest.mark.parametrize("grade, lo, hi", [
     # ISO 3448 Table 1: kinematic viscosity limits at 40 °C, mm²/s
+    ("VG10", 9.0, 11.0), ("VG15", 13.5, 16.5),
     ("VG22", 19.8, 24.2), ("VG32", 28.8, 35.2), ("VG46", 41.4, 50.6), ("VG68", 61.2, 74.8), ("VG100", 90.0, 110.0),
+    ("VG150", 135.0, 165.0),
 ])
 def test_iso3448_grade_limits(grade, lo, hi):
     got_lo, got_hi = iso3448_limits(grade)
@@ -101,4 +103,25 @@ def test_grade_check_against_nu40():
     with pytest.raises(InputError, match="ISO 3448 VG46"):
         Oil.from_values({"grade": "VG46", "nu40": 60e-6, "nu100": 7e-6, "density15": 870, "expansion": 7e-4,
                          "bulk_modulus": 1.4e9, "pour_point": 243.15})
-    assert set(ISO3448_MIDPOINT_CST) == {"VG22", "VG32", "VG46", "VG68", "VG100"}
+    assert set(ISO3448_MIDPOINT_CST) == {"VG10", "VG15", "VG22", "VG32", "VG46", "VG68", "VG100", "VG150"}
+
+
+def test_effective_bulk_modulus_series_springs_by_hand():
+    """Springs in series (Merritt 1967, from memory): 1/E' = 1/E_oil + (V_l/V)/K_l + x/(kappa p_abs).
+
+    By hand: oil 1.4e9 Pa with 40 % of the column in a hose of 3e8 Pa: 1/E' = 7.1429e-10 +
+    1.3333e-9 = 2.0476e-9, E' = 4.884e8 Pa, inside the 0.7 to 1.2 GPa typical with hoses only
+    when the hose share is small (from memory). Steel tube 10 x 1.5 mm: K = E t/d = 3.15e10 Pa
+    (thin wall, Barlow). Air: 0.5 % at atmospheric, at 1 bar gauge (p_abs = 2.01325e5 Pa):
+    x = 0.005 x 0.6121 / (0.995 + 0.0031) = 0.003066; term 0.003066/(1.4 x 2.01325e5) = 1.088e-8,
+    1/E' = 1.159e-8, E' = 8.6e7 Pa: sixteen times softer than the oil alone; at 200 bar the
+    air hardly counts."""
+    from workbook.fluid import effective_bulk_modulus, tube_modulus
+    assert float(effective_bulk_modulus(1.4e9, 0.0, 0.0, 0.4, 3e8)) == pytest.approx(4.884e8, rel=1e-3)
+    assert tube_modulus(0.010, 0.0015) == pytest.approx(3.15e10)
+    soft = float(effective_bulk_modulus(1.4e9, 1e5, 0.005))
+    r = (101325 / 201325) ** (1 / 1.4)
+    x = 0.005 * r / (0.995 + 0.005 * r)
+    assert soft == pytest.approx(1 / (1 / 1.4e9 + x / (1.4 * 201325)), rel=1e-12)
+    assert soft == pytest.approx(8.63e7, rel=2e-3) and soft < 1.4e9 / 15
+    assert float(effective_bulk_modulus(1.4e9, 200e5, 0.005)) > 0.95 * 1.4e9

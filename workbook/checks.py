@@ -229,6 +229,37 @@ def _line_rule(rule_id, line, limit_key, flow_getter, bore_attr, words):
                 f"{line} line velocity", "velocity", "max", "common practice", measure, broken="caution")
 
 
+def _port_rule(side: str):
+    """Velocity in the line to the ``side`` port in every case, against the pressure-line
+    limit while it feeds the chamber and the return-line limit while it drains it; the case
+    nearest its limit is reported. On retraction the cap line carries the area ratio times
+    the flow into the rod side (common practice: the case people forget)."""
+    def measure(ctx):
+        ax = ctx.axis
+        d = ax.ratings.cap_line_bore if side == "cap" else ax.ratings.rod_line_bore
+        area = math.pi * d * d / 4.0
+        best = None
+        for direction, opening, s in ctx.cases:
+            driving = (direction == "extend") == (side == "cap")
+            q = s.q_cylinder_in if driving else s.q_cylinder_out
+            into = (q > 0) == driving                       # oil flows into this chamber
+            v = np.abs(q) / area
+            lim = np.where(into, ctx.limits["v_pressure"], ctx.limits["v_return"])
+            ratio = v / lim
+            i = np.unravel_index(np.argmax(ratio), ratio.shape)
+            if best is None or ratio[i] > best[0]:
+                best = (float(ratio[i]), float(v[i]), float(lim[i]),
+                        f"{direction}, valve {'closed' if opening == 0.0 else 'open'}, load "
+                        f"{float(s.load[i]) / 1e3:g} kN, oil {float(s.temperature[i]) - 273.15:.0f} degC, "
+                        f"{s.regime[i]}, {'feeding' if into[i] else 'draining'} the {side} side")
+        _, v, lim, where = best
+        return v, lim, (f"mean velocity in the {side} line, bore {d * 1e3:g} mm, at: {where}; limit of a "
+                        f"{'pressure' if lim == ctx.limits['v_pressure'] else 'return'} line")
+    return Rule(f"V-{side.upper()}-LINE", f"The mean oil velocity in the {side} port line stays within the "
+                "pressure-line limit while feeding and the return-line limit while draining.",
+                f"{side} line velocity", "velocity", "max", "common practice", measure, broken="caution")
+
+
 def _suction(ctx):
     """Suction line velocity from the pump's geometric flow (displacement x speed): what the
     pump draws when its leakage goes to a case drain, the conservative figure (common
@@ -270,15 +301,26 @@ def _stall(ctx):
     return float(bad.mean()), 0.0, where
 
 
+def _buckling_words(c) -> str:
+    """How the buckling load was found: length (given or estimated), slenderness, method."""
+    lam, lam_c = c.slenderness(), c.transition_slenderness()
+    method = ("Euler" if lam >= lam_c else
+              f"Johnson parabola (short rod, below the Euler limit; yield {c.rod_yield / 1e6:g} MPa)")
+    length = (f"pin-to-pin length {c.free_length * 1e3:g} mm ESTIMATED as twice the stroke plus four bores: "
+              "give cylinder.buckling_length" if c.length_estimated else f"pin-to-pin length {c.free_length * 1e3:g} mm")
+    return (f"{method}, {c.mounting}, {length}, slenderness {lam:.0f} (transition {lam_c:.0f}), E 210 GPa")
+
+
 def _buckling(ctx):
     """Highest rod compression (p1 A1 - p3 A3 > 0 pushes the rod out against the load)
-    against the Euler load of the rod over its free length, divided by the safety factor."""
+    against the buckling load of the rod over its free length (Euler, or Johnson for a short
+    rod), divided by the safety factor."""
     c = ctx.axis.cylinder
     val, where = ctx.worst(lambda s: np.maximum(c.force(s.p1, s.p3), 0.0))
-    f_euler = c.euler_buckling_load(length=c.free_length)
+    f_crit = c.buckling_load()
     k = ctx.limits["buckling_factor"]
-    return val, f_euler / k, (f"highest rod compression at: {where}; Euler load {f_euler / 1e3:.4g} kN "
-                              f"({c.mounting}, free length {c.free_length * 1e3:g} mm, E 210 GPa) / {k:g}")
+    return val, f_crit / k, (f"highest rod compression at: {where}; buckling load {f_crit / 1e3:.4g} kN "
+                             f"({_buckling_words(c)}) / {k:g}")
 
 
 def _buckling_stall(ctx):
@@ -287,9 +329,9 @@ def _buckling_stall(ctx):
     a = ctx.axis
     c = a.cylinder
     force = (a.supply.relief.full_flow + a.tank_pressure) * c.a1 - a.tank_pressure * c.a3
-    f_euler = c.euler_buckling_load(length=c.free_length)
+    f_crit = c.buckling_load()
     k = ctx.limits["buckling_factor"]
-    return force, f_euler / k, (f"relief full-flow pressure {a.supply.relief.full_flow / _BAR:g} bar above the "
+    return force, f_crit / k, (f"{_buckling_words(c)}; relief full-flow pressure {a.supply.relief.full_flow / _BAR:g} bar above the "
                                 f"{a.tank_pressure / _BAR:g} bar tank back pressure on the "
                                 f"piston; matters if the rod can be driven against a stop or an obstacle")
 
@@ -322,13 +364,14 @@ RULES: tuple[Rule, ...] = (
     Rule("H-RATING", "The holding valve setting stays within the cylinder, hose and valve ratings.",
          "holding valve setting", "pressure", "max", "user's data sheet", _hold_rating,
          margin_key="pressure_margin"),
-    Rule("ROD-BUCKLING", "The highest rod compression stays below the Euler buckling load divided by the "
+    Rule("ROD-BUCKLING", "The highest rod compression stays below the buckling load divided by the "
          "safety factor.", "rod compression", "force", "max",
-         "Euler buckling (pi^2 E I / (K L)^2); safety factor common practice (from memory)", _buckling),
-    Rule("ROD-BUCKLING-STALL", "Stalled against a stop at the relief pressure, the rod stays below the Euler "
+         "Euler buckling (pi^2 E I / (K L)^2), Johnson parabola below the transition slenderness (Shigley); "
+         "safety factor common practice (from memory)", _buckling),
+    Rule("ROD-BUCKLING-STALL", "Stalled against a stop at the relief pressure, the rod stays below the "
          "buckling load divided by the safety factor.", "rod force at relief pressure", "force", "max",
-         "Euler buckling (pi^2 E I / (K L)^2); safety factor common practice (from memory)", _buckling_stall,
-         broken="caution"),
+         "Euler buckling (pi^2 E I / (K L)^2), Johnson parabola below the transition slenderness (Shigley); "
+         "safety factor common practice (from memory)", _buckling_stall, broken="caution"),
     Rule("HEAT-SHARE", "Throttling heat stays within the allowed share of the installed drive power.",
          "throttling heat", "power", "max", "common practice", _heat, broken="caution"),
     Rule("DRIVE-POWER", "The pump never needs more shaft power than the installed drive.",
@@ -339,6 +382,8 @@ RULES: tuple[Rule, ...] = (
     _line_rule("V-PRESSURE", "pressure", "v_pressure", lambda s: s.q_pump, "pressure_line_bore", "3 to 6 m/s"),
     _line_rule("V-RETURN", "return", "v_return", lambda s: s.q_cylinder_out + s.q_relief + s.q_bleed,
                "return_line_bore", "2 to 4 m/s (relief taken to drain into it)"),
+    _port_rule("cap"),
+    _port_rule("rod"),
     Rule("SPEED-TARGET", "The controlled motion keeps its target speed within tolerance over every load and "
          "temperature.", "largest speed deviation", "dimensionless", "max", "target and tolerance from the design; common practice",
          _speed),

@@ -104,7 +104,7 @@ import numpy as np
 
 from .cylinder import Cylinder
 from .errors import InputError
-from .fluid import P_ATM, Oil
+from .fluid import P_ATM, Oil, effective_bulk_modulus, tube_modulus
 from .supply import Supply
 from .valve import (CB_OPEN_GRADIENT_DEFAULT, CHECK_GRADIENT_DEFAULT, BackPressureValve, CheckValve, CompensatedFlowValve,
                     CounterbalanceValve, RestrictorValve, check_opening)
@@ -146,10 +146,30 @@ class Ratings:
     pressure_line_bore: float = 0.010
     return_line_bore: float = 0.012
     suction_line_bore: float = 0.025
+    cap_line_bore: float = 0.010
+    rod_line_bore: float = 0.010
+    cap_line_length: float = 1.5
+    rod_line_length: float = 1.5
+    line_kind: str = "hose"
+    hose_modulus: float = 3000 * _BAR
+    tube_wall: float = 0.0015
 
     @classmethod
     def from_values(cls, values: Mapping) -> "Ratings":
-        return cls(**{f.name: float(values[f.name]) for f in fields(cls) if values.get(f.name) is not None})
+        return cls(**{f.name: (str(values[f.name]) if f.name == "line_kind" else float(values[f.name]))
+                      for f in fields(cls) if values.get(f.name) is not None})
+
+    def line_volume(self, side: str) -> float:
+        """Volume of the line between the valves and the ``side`` port, m³ (its dead volume)."""
+        bore, length = ((self.cap_line_bore, self.cap_line_length) if side == "cap"
+                        else (self.rod_line_bore, self.rod_line_length))
+        return math.pi * bore * bore / 4.0 * length
+
+    def line_modulus(self, side: str) -> float:
+        """Volumetric stiffness of the ``side`` line, Pa: the hose's, or ``E t / d`` of a steel tube."""
+        if self.line_kind == "steel tube":
+            return tube_modulus(self.cap_line_bore if side == "cap" else self.rod_line_bore, self.tube_wall)
+        return self.hose_modulus
 
 
 @dataclass(frozen=True)
@@ -179,6 +199,7 @@ class Axis:
     mass: float = 0.0
     ratings: Ratings = field(default_factory=Ratings)
     cavitation_abs: float = CAVITATION_ABS_DEFAULT
+    air_content: float = 0.0
 
     def __post_init__(self):
         if self.arrangement not in ARRANGEMENTS:
@@ -981,6 +1002,33 @@ def _counterbalance_from_values(hold: Mapping, pilot_ratio: float) -> Counterbal
                                open_gradient=hold.get("open_gradient") or CB_OPEN_GRADIENT_DEFAULT)
 
 
+def chamber_modulus(axis: Axis, side: str, pressure, position):
+    """Effective bulk modulus, Pa, of the ``side`` oil column (chamber and its line) at gauge
+    ``pressure`` (Pa) with the piston at ``position`` (m from the cap end), from the oil's
+    own modulus, the line's compliance over its share of the column and the entrained air
+    (:func:`workbook.fluid.effective_bulk_modulus`)."""
+    c, r = axis.cylinder, axis.ratings
+    x = np.clip(np.asarray(position, dtype=float), 0.0, c.stroke)
+    v_chamber = c.a1 * x if side == "cap" else c.a3 * (c.stroke - x)
+    v_line = r.line_volume(side)
+    share = v_line / np.maximum(v_chamber + v_line, 1e-12)
+    return effective_bulk_modulus(axis.oil.bulk_modulus, np.maximum(pressure, 0.0), axis.air_content, share,
+                                  r.line_modulus(side))
+
+
+def natural_frequency(axis: Axis, p_cap, p_rod, n: int = 97) -> float:
+    """Lowest hydraulic natural frequency over the stroke, rad/s, with the chambers at
+    ``p_cap`` and ``p_rod`` (Pa gauge, scalars): ``w0² = (E1' A1²/V1 + E3' A3²/V3)/m``
+    (Merritt 1967) with each column's effective modulus (:func:`chamber_modulus`) and the
+    lines between valves and cylinder as dead volumes. Requires ``axis.mass > 0``."""
+    c = axis.cylinder
+    x = np.linspace(0.0, 1.0, n) * c.stroke
+    e1 = chamber_modulus(axis, "cap", p_cap, x)
+    e3 = chamber_modulus(axis, "rod", p_rod, x)
+    w = c.natural_frequency(e1, axis.mass, x, axis.ratings.line_volume("cap"), axis.ratings.line_volume("rod"), e3)
+    return float(np.min(w))
+
+
 def _holding_check(hold: Mapping) -> CheckValve:
     """The holding valve's free-flow check from the ``holding`` section."""
     return CheckValve(hold.get("check_cracking", _BAR), hold.get("check_gradient") or CHECK_GRADIENT_DEFAULT)
@@ -1123,9 +1171,9 @@ def _axis_from_values(values: Mapping[str, Mapping]) -> Axis:
                 friction=op["friction"], tank_pressure=op["tank_pressure"], loads=tuple(design_loads(op)),
                 temp_min=op["temp_min"], temp_max=op["temp_max"], target_speed=op.get("target_speed"),
                 speed_tolerance=op.get("speed_tolerance", 0.15), mass=op.get("mass", 0.0), ratings=ratings,
-                cavitation_abs=cav)
+                cavitation_abs=cav, air_content=oil_v.get("air_content") or 0.0)
 
 
-__all__ = ["Axis", "Ratings", "Solution", "solve", "axis_from_values", "design_loads", "G_STANDARD", "solve_increasing", "REGIMES",
+__all__ = ["Axis", "Ratings", "Solution", "solve", "natural_frequency", "chamber_modulus", "axis_from_values", "design_loads", "G_STANDARD", "solve_increasing", "REGIMES",
            "ARRANGEMENTS", "DIRECTIONS", "METERING", "STARVED", "PUMP_LIMITED", "RELIEF", "STALLED", "HELD",
            "CLOSED", "RUNAWAY", "CAVITATING", "SINKING", "DRIVEN_BACK", "UNCONTROLLED", "CAVITATION_ABS_DEFAULT"]

@@ -40,6 +40,9 @@ ISO3320_BORES_SECOND_MM = (90, 110, 140, 180, 220, 280, 360, 450)
 ISO3320_RODS_MM = (4, 5, 6, 8, 10, 12, 14, 16, 18, 20, 22, 25, 28, 32, 36, 40, 45, 50, 56, 63, 70, 80,
                    90, 100, 110, 125, 140, 160, 180, 200, 220, 250, 280, 320, 360)
 
+#: default yield strength of the rod steel, Pa (from memory: C45 normalised about 355 MPa)
+ROD_YIELD_DEFAULT = 355e6
+
 #: Euler end-fixing factors: effective length over actual length (common practice)
 EULER_LENGTH_FACTOR = {
     "pinned-pinned": 1.0,
@@ -86,6 +89,7 @@ class Cylinder:
     rated_pressure: float = 210e5
     mounting: str = "pinned-pinned"
     buckling_length: float | None = None
+    rod_yield: float = ROD_YIELD_DEFAULT
 
     def __post_init__(self):
         for name in ("bore", "rod", "stroke", "rated_pressure"):
@@ -94,6 +98,7 @@ class Cylinder:
             raise InputError("mounting", repr(self.mounting), "one of " + ", ".join(EULER_LENGTH_FACTOR))
         if self.buckling_length is not None:
             object.__setattr__(self, "buckling_length", _positive("buckling_length", self.buckling_length))
+        object.__setattr__(self, "rod_yield", _positive("rod_yield", self.rod_yield))
         if not self.rod < self.bore:
             raise InputError("rod", f"{self.rod * 1e3:g} mm",
                              f"a rod diameter smaller than the bore ({self.bore * 1e3:g} mm)")
@@ -102,7 +107,8 @@ class Cylinder:
     def from_values(cls, values) -> "Cylinder":
         """From the parsed ``cylinder`` section of :mod:`workbook.inputs`."""
         return cls(values["bore"], values["rod"], values["stroke"], values["rated_pressure"],
-                   values.get("mounting", "pinned-pinned"), values.get("buckling_length"))
+                   values.get("mounting", "pinned-pinned"), values.get("buckling_length"),
+                   values.get("rod_yield") or ROD_YIELD_DEFAULT)
 
     @property
     def a1(self) -> float:
@@ -174,24 +180,91 @@ class Cylinder:
         return math.pi ** 2 * youngs_modulus * inertia / (k * length) ** 2
 
     @property
-    def free_length(self) -> float:
-        """Buckling length of the extended cylinder, m: the given one, else twice the stroke."""
-        return self.buckling_length if self.buckling_length is not None else 2.0 * self.stroke
+    def estimated_length(self) -> float:
+        """Pin-to-pin length of the extended cylinder estimated from bore and stroke, m:
+        ``L = stroke + L_closed``, ``L_closed = stroke + 4 D`` (heads, piston, guide and the
+        two pin eyes of a clevis-mounted cylinder take about three to four bores; the high end
+        is taken, from memory). Longer than twice the stroke, hence conservative for short
+        strokes, where the dead length dominates.
 
-    def natural_frequency(self, bulk_modulus: float, mass: float, position: float,
-                          dead_volume_cap: float = 0.0, dead_volume_rod: float = 0.0):
+        >>> round(Cylinder(0.08, 0.045, 0.1).estimated_length, 6)     # 2 x 0.1 + 4 x 0.08
+        0.52
+        """
+        return 2.0 * self.stroke + 4.0 * self.bore
+
+    @property
+    def length_estimated(self) -> bool:
+        """True when no buckling length was given and :attr:`estimated_length` is used."""
+        return self.buckling_length is None
+
+    @property
+    def free_length(self) -> float:
+        """Buckling length of the extended cylinder, m: the given pin-to-pin length, else
+        :attr:`estimated_length`."""
+        return self.buckling_length if self.buckling_length is not None else self.estimated_length
+
+    def slenderness(self, length: float | None = None, mounting: str | None = None) -> float:
+        """Slenderness ratio of the rod ``lambda = K L / i`` with ``i = d / 4`` (solid round)."""
+        mounting = self.mounting if mounting is None else mounting
+        length = self.free_length if length is None else _positive("length", length)
+        return EULER_LENGTH_FACTOR[mounting] * length / (self.rod / 4.0)
+
+    def transition_slenderness(self, youngs_modulus: float = 2.1e11) -> float:
+        """Slenderness where the Johnson parabola meets Euler's curve: ``pi sqrt(2 E / s_y)``."""
+        return math.pi * math.sqrt(2.0 * youngs_modulus / self.rod_yield)
+
+    def buckling_load(self, length: float | None = None, youngs_modulus: float = 2.1e11,
+                      mounting: str | None = None) -> float:
+        """Critical load of the rod, N: Euler above the transition slenderness, the Johnson
+        parabola below it (short rods, where Euler over-estimates)::
+
+            lambda >= lambda_c:  F = pi² E I / (K L)²
+            lambda <  lambda_c:  F = A_rod (s_y - (s_y lambda / (2 pi))² / E)
+
+        Johnson parabola (J. B. Johnson; as in Shigley, Mechanical Engineering Design),
+        tangent to Euler's curve at ``lambda_c = pi sqrt(2 E / s_y)`` where the critical
+        stress is half the yield strength.
+
+        Worked example (by hand): 45 mm rod, 355 MPa, pinned, 0.6 m: lambda = 0.6 / 0.01125
+        = 53.3, lambda_c = pi sqrt(2 × 2.1e11 / 3.55e8) = 108.1: Johnson,
+        s = 355e6 - (355e6 × 53.33 / (2 pi))² / 2.1e11 = 355e6 - 43.18e6 = 311.8e6 Pa; A_rod =
+        1.5904e-3 m², F = 495.9 kN (Euler would claim 1159 kN).
+
+        >>> round(Cylinder(0.08, 0.045, 0.6).buckling_load(0.6) / 1e3, 1)
+        495.9
+        """
+        length = self.free_length if length is None else _positive("length", length)
+        lam = self.slenderness(length, mounting)
+        if lam >= self.transition_slenderness(youngs_modulus):
+            return self.euler_buckling_load(youngs_modulus, mounting, length)
+        sy = self.rod_yield
+        return self.rod_area * (sy - (sy * lam / (2.0 * math.pi)) ** 2 / youngs_modulus)
+
+    def natural_frequency(self, bulk_modulus, mass: float, position: float,
+                          dead_volume_cap: float = 0.0, dead_volume_rod: float = 0.0, bulk_modulus_rod=None):
         """Hydraulic natural frequency, rad/s, with the piston at ``position`` (m from the cap end).
 
-        ``w0 = sqrt(E'/m * (A1²/V1 + A3²/V3))``, ``V1 = A1 x + V1dead``,
-        ``V3 = A3 (stroke - x) + V3dead`` (Merritt, Hydraulic Control Systems, 1967).
+        ``w0 = sqrt((E1' A1²/V1 + E3' A3²/V3) / m)``, ``V1 = A1 x + V1dead``,
+        ``V3 = A3 (stroke - x) + V3dead`` (Merritt, Hydraulic Control Systems, 1967; the two
+        oil columns as springs in parallel on the piston). ``bulk_modulus`` is E1' (and E3'
+        unless ``bulk_modulus_rod`` is given); either may be an array over ``position``.
+
+        >>> c = Cylinder(0.08, 0.045, 0.6)
+        >>> # mid-stroke, 1 GPa, 800 kg: k = 1e9 (A1 + A3)/0.3 = 1e9 x 84.626e-4/0.3 = 2.8209e7 N/m,
+        >>> # w0 = sqrt(2.8209e7 / 800) = 187.78 rad/s
+        >>> round(float(c.natural_frequency(1e9, 800.0, 0.3)), 2)
+        187.78
         """
-        e = _positive("bulk_modulus", bulk_modulus)
+        e1 = np.asarray(bulk_modulus, dtype=float)
+        e3 = e1 if bulk_modulus_rod is None else np.asarray(bulk_modulus_rod, dtype=float)
+        if not (np.all(np.isfinite(e1)) and np.all(e1 > 0) and np.all(np.isfinite(e3)) and np.all(e3 > 0)):
+            raise InputError("bulk_modulus", bulk_modulus, "a finite value greater than 0")
         m = _positive("mass", mass)
         x = np.clip(np.asarray(position, dtype=float), 0.0, self.stroke)
         v1 = self.a1 * x + dead_volume_cap
         v3 = self.a3 * (self.stroke - x) + dead_volume_rod
         tiny = 1e-12
-        return np.sqrt(e / m * (self.a1 ** 2 / np.maximum(v1, tiny) + self.a3 ** 2 / np.maximum(v3, tiny)))
+        return np.sqrt((e1 * self.a1 ** 2 / np.maximum(v1, tiny) + e3 * self.a3 ** 2 / np.maximum(v3, tiny)) / m)
 
 
 def smallest_standard_bore(force: float, pressure: float, rod_ratio: float | None = None) -> float:
@@ -231,5 +304,5 @@ def is_standard_rod(rod: float) -> bool:
     return any(abs(rod - r / 1000.0) < 1e-6 for r in ISO3320_RODS_MM)
 
 
-__all__ = ["Cylinder", "ISO3320_BORES_MM", "ISO3320_RODS_MM", "EULER_LENGTH_FACTOR",
+__all__ = ["Cylinder", "ISO3320_BORES_MM", "ISO3320_RODS_MM", "EULER_LENGTH_FACTOR", "ROD_YIELD_DEFAULT",
            "smallest_standard_bore", "standard_rods_for", "is_standard_bore", "is_standard_rod", "ISO3320_BORES_SECOND_MM"]

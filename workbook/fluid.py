@@ -13,7 +13,7 @@ working range)::
 
     rho(T) = rho15 / (1 + alpha * (T - 288.15 K))
 
-ISO 3448 viscosity grades (VG 22 to VG 100) fix the 40 °C midpoint within ±10 %; the
+ISO 3448 viscosity grades (VG 10 to VG 150) fix the 40 °C midpoint within ±10 %; the
 100 °C values of the presets are typical datasheet values for a mineral oil of viscosity
 index about 100 (from memory) and can be overwritten.
 
@@ -37,6 +37,8 @@ from __future__ import annotations
 from dataclasses import dataclass
 from typing import Mapping
 
+import math
+
 import numpy as np
 
 from .errors import InputError, ModelValidityError
@@ -51,9 +53,15 @@ T_DENSITY_REF = 288.15
 NU_MIN_VALID = 2.0e-6
 
 #: ISO 3448 grade midpoints at 40 °C, cSt; limits are ±10 % (ISO 3448)
-ISO3448_MIDPOINT_CST = {"VG22": 22.0, "VG32": 32.0, "VG46": 46.0, "VG68": 68.0, "VG100": 100.0}
+ISO3448_MIDPOINT_CST = {"VG10": 10.0, "VG15": 15.0, "VG22": 22.0, "VG32": 32.0, "VG46": 46.0, "VG68": 68.0,
+                        "VG100": 100.0, "VG150": 150.0}
 #: typical 100 °C viscosity of a mineral oil of viscosity index about 100, cSt (from memory)
-TYPICAL_NU100_CST = {"VG22": 4.3, "VG32": 5.4, "VG46": 6.8, "VG68": 8.7, "VG100": 11.1}
+TYPICAL_NU100_CST = {"VG10": 2.6, "VG15": 3.4, "VG22": 4.3, "VG32": 5.4, "VG46": 6.8, "VG68": 8.7,
+                     "VG100": 11.1, "VG150": 14.7}
+#: polytropic index of entrained air compressed quickly (adiabatic, diatomic gas)
+KAPPA_AIR = 1.4
+#: Young's modulus of steel, Pa (common practice)
+E_STEEL = 2.1e11
 
 
 def iso3448_limits(grade: str) -> tuple[float, float]:
@@ -235,6 +243,64 @@ class Oil:
         return _like(10 ** ((self._a - w) / self._b), nu)
 
 
+def air_fraction(air_content: float, pressure):
+    """Share of the volume taken by entrained air at gauge ``pressure`` (Pa), given its share
+    ``air_content`` at atmospheric pressure; the air compressed polytropically
+    (``p V^kappa`` constant, kappa 1.4)::
+
+        x(p) = x0 (p_atm / p_abs)^(1/kappa) / (1 - x0 + x0 (p_atm / p_abs)^(1/kappa))
+
+    >>> round(float(air_fraction(0.01, 0.0)), 6)
+    0.01
+    """
+    x0 = float(air_content)
+    r = (P_ATM / (np.asarray(pressure, dtype=float) + P_ATM)) ** (1.0 / KAPPA_AIR)
+    return x0 * r / (1.0 - x0 + x0 * r)
+
+
+def tube_modulus(bore: float, wall: float, youngs_modulus: float = E_STEEL) -> float:
+    """Volumetric stiffness of a thin-walled tube, Pa: ``K = E t / d``.
+
+    Thin wall (Barlow): hoop stress ``p d / (2 t)``, hoop strain ``p d / (2 t E)``; the volume
+    grows with twice the diametral strain, ``dV/V = p d / (t E)`` (open ends, axial strain
+    neglected). 10 mm bore, 1.5 mm wall: 2.1e11 × 1.5 / 10 = 3.15e10 Pa.
+
+    >>> round(tube_modulus(0.010, 0.0015) / 1e9, 2)
+    31.5
+    """
+    return youngs_modulus * wall / bore
+
+
+def effective_bulk_modulus(oil_modulus: float, pressure, air_content: float = 0.0, line_share=0.0,
+                           line_modulus: float = math.inf):
+    """Effective bulk modulus, Pa, of an oil column with its line and entrained air: springs
+    in series (Merritt, Hydraulic Control Systems, 1967; from memory)::
+
+        1/E' = 1/E_oil + (V_line/V) / K_line + x(p) / (kappa p_abs)
+
+    Parameters: ``oil_modulus`` E_oil (Pa); ``pressure`` gauge (Pa; the air term needs the
+    absolute pressure); ``air_content`` x0 at atmospheric pressure (fraction, see
+    :func:`air_fraction`); ``line_share`` V_line/V (fraction of the column in the hose or
+    tube); ``line_modulus`` K_line (Pa, :func:`tube_modulus` or the hose's stiffness).
+
+    Worked example (by hand): oil 1.4e9 Pa, half the column in a hose of 3e8 Pa, no air:
+    1/E' = 1/1.4e9 + 0.5/3e8 = 7.143e-10 + 1.667e-9 = 2.381e-9 -> E' = 4.2e8 Pa. With 1 %
+    air at 100 bar gauge (p_abs = 101.01325e5 Pa): (1.01325/101.01325)^(1/1.4) = 0.03735,
+    x = 3.735e-4 / 0.99037 = 3.771e-4; its term 3.771e-4 / (1.4 × 101.01325e5) = 2.667e-11, so
+    1/E' = 7.143e-10 + 0.267e-10 = 7.410e-10 and E' = 1.35e9 Pa.
+
+    >>> round(float(effective_bulk_modulus(1.4e9, 100e5, 0.0, 0.5, 3e8)) / 1e8, 3)
+    4.2
+    >>> round(float(effective_bulk_modulus(1.4e9, 100e5, 0.01)) / 1e9, 3)
+    1.35
+    """
+    p_abs = np.maximum(np.asarray(pressure, dtype=float) + P_ATM, 1.0)
+    inv = 1.0 / oil_modulus + air_fraction(air_content, p_abs - P_ATM) / (KAPPA_AIR * p_abs)
+    if math.isfinite(line_modulus):
+        inv = inv + np.asarray(line_share, dtype=float) / line_modulus
+    return 1.0 / inv
+
+
 def _like(value, template):
     """Return a float for scalar input, an array otherwise."""
     if np.ndim(template) == 0:
@@ -243,4 +309,5 @@ def _like(value, template):
 
 
 __all__ = ["Oil", "P_ATM", "T0_C", "ISO3448_MIDPOINT_CST", "TYPICAL_NU100_CST", "iso3448_limits",
-           "walther_constants", "NU_MIN_VALID"]
+           "walther_constants", "NU_MIN_VALID", "air_fraction", "tube_modulus", "effective_bulk_modulus",
+           "KAPPA_AIR", "E_STEEL"]

@@ -11,7 +11,7 @@ from __future__ import annotations
 import numpy as np
 
 from ..checks import evaluate
-from ..circuit import solve
+from ..circuit import chamber_modulus, natural_frequency, solve
 from .base import Outcome, finding, result
 from .common import AXIS_FIELDS, FLOW_VALVE_FIELDS, HOLDING_FIELDS, build_axis
 
@@ -22,7 +22,10 @@ NORMAL_REGIME = None
 
 FIELDS = AXIS_FIELDS + FLOW_VALVE_FIELDS + HOLDING_FIELDS + (
     ("cylinder", "stroke"), ("cylinder", "mounting"), ("cylinder", "buckling_length"),
-    ("operation", "mass"), ("oil", "bulk_modulus"),
+    ("operation", "mass"), ("oil", "bulk_modulus"), ("oil", "air_content"), ("cylinder", "rod_yield"),
+    ("supply", "overall_efficiency"), ("ratings", "cap_line_bore"), ("ratings", "rod_line_bore"),
+    ("ratings", "cap_line_length"), ("ratings", "rod_line_length"), ("ratings", "line_kind"),
+    ("ratings", "hose_modulus"), ("ratings", "tube_wall"),
     ("ratings", "hose_rating"), ("ratings", "valve_rating"), ("ratings", "pressure_line_bore"),
     ("ratings", "return_line_bore"), ("ratings", "suction_line_bore"),
     ("limits", "counterbalance_factor"), ("limits", "pressure_margin"), ("limits", "cavitation_abs"),
@@ -36,7 +39,7 @@ KEY_FIELDS = (
 )
 #: display unit of each dimension in findings
 DISPLAY_UNIT = {"pressure": "bar", "velocity": "m/s", "power": "kW", "flow": "L/min", "force": "kN",
-                "length": "mm", "temperature": "degC", "dimensionless": ""}
+                "length": "mm", "temperature": "degC", "dimensionless": "%"}
 
 
 def run(values) -> Outcome:
@@ -64,13 +67,19 @@ def run(values) -> Outcome:
     }
     c = axis.cylinder
     if axis.mass > 0:
-        x = np.linspace(0.02, 0.98, 97) * c.stroke
-        w = c.natural_frequency(axis.oil.bulk_modulus, axis.mass, x)
-        res["natural_frequency"] = result("Lowest hydraulic natural frequency over the stroke "
-                                          "(no dead volume: an upper estimate; Merritt)",
-                                          float(np.min(w)) / (2 * np.pi), "dimensionless", "Hz")
-    res["euler_load"] = result(f"Euler buckling load of the rod ({c.mounting}, free length "
-                               f"{c.free_length * 1e3:g} mm)", c.euler_buckling_load(length=c.free_length),
+        # at each load case (cold oil, controlled motion) with each column's effective modulus
+        # (oil, line compliance, air at that pressure) and the lines as dead volumes
+        cold = sol.p1[:, 0], sol.p3[:, 0]
+        w = min(natural_frequency(axis, float(p1), float(p3)) for p1, p3 in zip(*cold))
+        res["natural_frequency"] = result("Lowest hydraulic natural frequency over the stroke and load cases "
+                                          "(effective bulk modulus, line dead volumes; Merritt)",
+                                          w / (2 * np.pi), "dimensionless", "Hz")
+        mid = chamber_modulus(axis, "cap", float(np.max(cold[0])), 0.5 * c.stroke)
+        res["bulk_modulus_cap"] = result("Effective bulk modulus of the cap column at mid-stroke, highest "
+                                         "cap pressure", float(mid), "pressure", "bar")
+    res["euler_load"] = result(f"Buckling load of the rod ({'Euler' if c.slenderness() >= c.transition_slenderness() else 'Johnson'}, "
+                               f"{c.mounting}, {'estimated ' if c.length_estimated else ''}length "
+                               f"{c.free_length * 1e3:g} mm, slenderness {c.slenderness():.0f})", c.buckling_load(),
                                "force", "kN")
     if closed is not None:
         res["p_cap_closed"] = result("Highest cap pressure, flow valve closed", float(np.max(closed.p1)),

@@ -11,6 +11,12 @@ opening (Q -> 0), with ``p_L = (F - F_fr)/A_hold`` and ``a = A_d/A_hold``::
 
     p_d = (p_set - p_L) / (R + a)          pilot pressure needed to lower
 
+With ``k`` the outlet term of the valve's spring chamber (``1 + R`` outlet-referenced, 0
+vented; see :class:`~workbook.valve.CounterbalanceValve`) the opening condition reads
+``p_hold + R p_d >= p_set + k p_out + g Q``, so a metering valve downstream (outlet
+pressure ``p_out``) raises the lowering pressures of an outlet-referenced valve by about
+``k p_out`` and leaves a vented one alone: the study shows both.
+
 Everything is solved at the cold end of the oil temperature range, where pressures and pilot
 pressures are highest. A high ratio lowers with a small pilot pressure (less pump pressure, less heat); a low ratio
 makes the valve less sensitive to pilot-pressure swings, steadier with an unstable load
@@ -24,8 +30,8 @@ import dataclasses
 
 import numpy as np
 
-from ..circuit import solve
-from ..valve import BackPressureValve, CounterbalanceValve
+from ..circuit import METERING, solve
+from ..valve import BackPressureValve
 from ..errors import InputError
 from .base import Outcome, curve, finding, grade, result
 from .common import AXIS_FIELDS, FLOW_VALVE_FIELDS, build_axis, section_fields, regime_list, sweep
@@ -35,7 +41,8 @@ TITLE = "Counterbalance setting"
 PURPOSE = ("Set the counterbalance valve from the load cases, compare pilot ratios (pilot pressure to "
            "lower, pump pressure, heat) and a back-pressure valve in series, and check the setting "
            "against the ratings.")
-NORMAL_REGIME = None
+#: lowering is metered; held, stalled, sinking or driven-back points are drawn dotted and named
+NORMAL_REGIME = METERING
 
 FIELDS = AXIS_FIELDS + FLOW_VALVE_FIELDS + section_fields("holding", without=("kind",)) + (
     ("ratings", "hose_rating"), ("ratings", "valve_rating"),
@@ -78,6 +85,7 @@ def run(values) -> Outcome:
     if any(not r > 0 for r in ratios):
         raise InputError("study.pilot_ratios", ratios, "pilot ratios greater than 0 (3 means 3:1)")
     check = base.holding.check  # the design's free-flow check, cracking and flow drop
+    design_cb = base.holding    # the design's valve: spring chamber, fully-open drop, check
 
     res = {
         "load_pressure_max": result("Highest load-induced holding pressure", p_load_max, "pressure", "bar"),
@@ -87,13 +95,15 @@ def run(values) -> Outcome:
     }
     pilot_series, pump_series, heat_series, regimes = {}, {}, {}, {}
     for r in ratios:
-        cb = CounterbalanceValve(setting, r, hold["gradient"], check)
+        cb = dataclasses.replace(design_cb, pilot_ratio=r)
         ax = dataclasses.replace(base, holding=cb, holding_side=side)
         sol = solve(ax, loads, t_cold, direction=lower)
         name = f"counterbalance {r:g}:1"
         pilot_series[name] = curve(np.asarray(sol.p_pilot) / 1e5)
         pump_series[name] = curve(np.asarray(sol.p_pump) / 1e5)
-        heat_series[name] = curve(np.asarray(sol.loss_holding) / 1e3)
+        # the whole axis's heat (what the heat-share check grades), held points included: there
+        # the pump's whole flow crosses the relief (drawn dotted and named by their regime)
+        heat_series[name] = curve(np.asarray(sol.loss_total) / 1e3)
         regimes[name] = regime_list(sol)
         at_cases = solve(ax, cases, t_cold, direction=lower)
         res[f"pilot_{r:g}"] = result(f"Pilot pressure to lower, {r:g}:1, highest over load cases",
@@ -106,7 +116,7 @@ def run(values) -> Outcome:
     name = "back-pressure valve"
     pilot_series[name] = curve(np.full(loads.size, np.nan))  # no pilot: nothing to draw
     pump_series[name] = curve(np.asarray(sol_bp.p_pump) / 1e5)
-    heat_series[name] = curve(np.asarray(sol_bp.loss_holding) / 1e3)
+    heat_series[name] = curve(np.asarray(sol_bp.loss_total) / 1e3)
     regimes[name] = regime_list(sol_bp)
     bp_cases = solve(ax_bp, cases, t_cold, direction=lower)
     res["heat_back_pressure"] = result("Heat in the back-pressure valve, highest over load cases",
@@ -136,23 +146,46 @@ def run(values) -> Outcome:
             "counterbalance setting", setting, rvalue, "pressure", "bar", level,
             "user's data sheet rating; caution margin common practice", margin,
             detail="a closed counterbalance relieves thermal expansion at its setting"))
+    # both spring-chamber types at the load cases: how much the outlet pressure moves the
+    # lowering pressures (holding chamber, pilot, outlet)
+    by_type = {}
+    for chamber in ("outlet-referenced", "vented"):
+        cb = dataclasses.replace(design_cb, spring_chamber=chamber)
+        st = solve(dataclasses.replace(base, holding=cb, holding_side=side), cases, t_cold, direction=lower)
+        p_hold = np.asarray(st.p1 if side == "cap" else st.p3)
+        by_type[chamber] = (float(np.max(p_hold)), float(np.max(np.asarray(st.p_pilot))),
+                            float(np.max(np.asarray(st.p_mid))))
+        key = chamber.split("-")[0]
+        res[f"lowering_hold_{key}"] = result(f"Holding chamber pressure while lowering, {chamber} valve, highest",
+                                             by_type[chamber][0], "pressure", "bar")
+        res[f"lowering_pilot_{key}"] = result(f"Pilot pressure while lowering, {chamber} valve, highest",
+                                              by_type[chamber][1], "pressure", "bar")
+        res[f"lowering_outlet_{key}"] = result(f"Counterbalance outlet pressure while lowering, {chamber} valve, "
+                                               "highest", by_type[chamber][2], "pressure", "bar")
     if base.valve_side() == side:
         # the flow valve meters the same line downstream of the counterbalance
-        outlet = solve(dataclasses.replace(base, holding=CounterbalanceValve(setting, hold["pilot_ratio"],
-                                                                         hold["gradient"], check),
-                                           holding_side=side), cases, t_cold, direction=lower)
-        p_out = float(np.max(np.asarray(outlet.p_mid)))
+        chosen_type = design_cb.spring_chamber
+        other = "vented" if chosen_type == "outlet-referenced" else "outlet-referenced"
+        p_out = by_type[chosen_type][2]
+        words = "; ".join(f"{t}: holding chamber {v[0] / 1e5:.4g} bar, pilot {v[1] / 1e5:.4g} bar, outlet "
+                          f"{v[2] / 1e5:.4g} bar" for t, v in by_type.items())
         findings.append(finding(
             "CB-OUTLET", "No metering valve downstream raises the counterbalance's outlet pressure",
             "highest counterbalance outlet pressure while lowering", p_out, base.tank_pressure, "pressure", "bar",
-            "caution", "common practice", None,
-            detail="the model takes the outlet pressure on the seat only; in a valve whose spring chamber drains "
-                   "to the outlet it also acts against the pilot, which changes when the valve opens: check the "
-                   "valve type on its data sheet, or meter in instead"))
+            "caution", "force balance on the poppet; valve types common practice", None,
+            detail=f"the design's valve is {chosen_type}; lowering pressures at the load cases, cold oil: {words}. "
+                   f"An outlet-referenced valve adds about (1 + R) times its outlet pressure to its opening "
+                   f"pressure, a vented one ignores it; confirm the type on the data sheet (the {other} figures "
+                   "show the other case), or meter in instead"))
     drive = values["supply"]["drive_power"]
-    chosen = CounterbalanceValve(setting, hold["pilot_ratio"], hold["gradient"], check)
+    chosen = design_cb
     chosen_sol = solve(dataclasses.replace(base, holding=chosen, holding_side=side), cases, t_cold, direction=lower)
-    heat = float(np.max(np.asarray(chosen_sol.loss_total)))
+    heat_all = np.asarray(chosen_sol.loss_total)
+    worst = int(np.argmax(heat_all))
+    heat = float(heat_all[worst])
+    worst_regime = str(np.asarray(chosen_sol.regime)[worst])
+    still = [f"{float(f) / 1e3:g} kN ({r})" for f, r, v in zip(cases, np.asarray(chosen_sol.regime),
+                                                              np.asarray(chosen_sol.speed)) if not v > 0]
     res["heat_chosen"] = result(f"Heat of the whole axis while lowering, chosen ratio {hold['pilot_ratio']:g}:1",
                                 heat, "power", "kW")
     res["pilot_chosen"] = result(f"Pilot pressure to lower, chosen ratio {hold['pilot_ratio']:g}:1",
@@ -163,9 +196,14 @@ def run(values) -> Outcome:
         "CB-HEAT", f"Heat while lowering with the chosen {hold['pilot_ratio']:g}:1 ratio stays within the heat "
         "share of the drive power", "throttling heat", heat, lim["heat_share"] * drive, "power", "kW", level,
         "common practice", margin,
-        detail="with a meter-out valve in series the pump runs at relief pressure while lowering; "
-               "meter-in, or the counterbalance alone, lowers with less heat"
-        if base.arrangement == "meter-out" and base.controlled == lower else ""))
+        detail="; ".join(filter(None, [
+            f"the whole axis's heat (valves, relief, return line), worst at "
+            f"{float(cases[worst]) / 1e3:g} kN ({worst_regime})",
+            ("not lowering at " + ", ".join(still) + ": there the whole pump flow crosses the relief")
+            if still else "",
+            "with a meter-out valve in series the pump runs at relief pressure while lowering; "
+            "meter-in, or the counterbalance alone, lowers with less heat"
+            if base.arrangement == "meter-out" and base.controlled == lower else ""]))))
     figures = {
         "pilot_pressure_vs_load": {
             "title": f"Pilot pressure while lowering ({lower}), cold oil", "x_label": "Load [kN]",
@@ -178,7 +216,8 @@ def run(values) -> Outcome:
             "limits": {"relief cracking": base.supply.relief.cracking / 1e5},
         },
         "heat_vs_load": {
-            "title": f"Heat in the holding valve while lowering ({lower}), cold oil", "x_label": "Load [kN]", "y_label": "Heat [kW]",
+            "title": f"Heat of the whole axis while lowering ({lower}), cold oil (valves, relief, return line)",
+            "x_label": "Load [kN]", "y_label": "Heat [kW]",
             "x": curve(loads / 1e3), "series": heat_series,
             "limits": {"heat share of drive power": lim["heat_share"] * drive / 1e3},
         },
