@@ -26,7 +26,7 @@ def _bounds_si(f, dim):
 
 def _value_strategy(f):
     if f.dimension == "text":
-        return st.text(max_size=10)
+        return st.text(st.characters(exclude_categories=("Cc", "Cf", "Cs", "Zl", "Zp")), max_size=10)
     if f.dimension == "choice":
         return st.sampled_from(f.choices)
     if f.dimension == "flag":
@@ -36,6 +36,8 @@ def _value_strategy(f):
     one = st.floats(0.001, 0.999).map(lambda t: lo + t * (hi - lo))
     if f.dimension == "quantity_list":
         return st.lists(one, min_size=1, max_size=4)
+    if f.integer:
+        return one.map(lambda v: float(min(max(round(v), lo), hi)))
     return one
 
 

@@ -57,6 +57,21 @@ DESIGN_KIND = {"orifice": "orifice", "throttle": "long throttle", "needle": "nee
                "compensated": "compensated valve"}
 
 
+class NoMotion(InputError):
+    """The axis does not move with the valve metering at the reference load (stalled or held).
+
+    Not bad input: a design that stalls is a design that fails. :func:`run` turns it into a
+    failing finding (exit 1 from the command line); :func:`candidates` raises it because no
+    candidate can be sized to a duty the axis never reaches.
+    """
+
+    def __init__(self, load: float, regime: str, speed: float):
+        self.load, self.regime, self.speed = load, regime, speed
+        super().__init__("operation.loads", f"a middle load of {load / 1e3:g} kN",
+                         "a reference load at which the axis moves with the valve metering "
+                         f"(it is {regime} there)")
+
+
 def valve_flow_for_speed(axis, speed: float) -> float:
     """Flow through the flow valve at ``speed`` of the controlled motion, m³/s."""
     c = axis.cylinder
@@ -100,9 +115,7 @@ def candidates(values):
     dp_ref = float(ref.dp_flow_valve)
     q_ref = float(ref.q_flow_valve)
     if not (dp_ref > 0 and q_ref > 0):
-        raise InputError("operation.loads", f"a middle load of {f_ref / 1e3:g} kN",
-                         "a reference load at which the axis moves with the valve metering "
-                         f"(it is {str(ref.regime)} there)")
+        raise NoMotion(f_ref, str(ref.regime), float(ref.speed))
     d_orifice = float(rs.orifice_diameter(q_ref, dp_ref, rho, mu, cd=fv["cd"]).diameter)
     d_throttle = float(rs.throttle_diameter(q_ref, dp_ref, rho, mu, fv["length"]).diameter)
     axis_o = dataclasses.replace(base, flow_valve=RestrictorValve(rs.SharpOrifice(d_orifice, cd=fv["cd"]), check,
@@ -143,8 +156,24 @@ class _Part:
         return value[self._part] if isinstance(value, np.ndarray) and value.ndim == 1 else value
 
 
+def _no_motion(values, stop: NoMotion) -> Outcome:
+    """The outcome of an axis that stalls or is held at the reference load: one failing finding."""
+    v_target = values["operation"]["target_speed"]
+    res = {"reference_load": result("Reference load (middle load case)", stop.load, "force", "kN")}
+    findings = [finding(
+        "SP-MOVES", "The controlled motion moves with the valve metering at the reference load (the middle "
+        "load case)", "speed at the reference load", abs(stop.speed), v_target, "velocity", "mm/s", "fail",
+        "force balance", None,
+        detail=f"the axis is {stop.regime} at {stop.load / 1e3:g} kN and the sizing temperature: no candidate "
+               "can be sized to a speed it never reaches")]
+    return Outcome(KIND, TITLE, values, FIELDS, res, findings, {}, {})
+
+
 def run(values) -> Outcome:
-    axes, res = candidates(values)
+    try:
+        axes, res = candidates(values)
+    except NoMotion as stop:
+        return _no_motion(values, stop)
     op, st = values["operation"], values["study"]
     t = st["design_temp"]
     loads = sweep(values)
@@ -194,7 +223,10 @@ def run(values) -> Outcome:
             "limits": {"relief cracking": axes["orifice"].supply.relief.cracking / 1e5},
         },
         "losses_vs_load": {
-            "title": "Throttling heat against load", "x_label": "Load [kN]", "y_label": "Heat [kW]",
+            # the whole axis's heat, what the heat-share check grades; stalled, held or driven-back
+            # points carry the relief's heat and are drawn dotted, named by their regime
+            "title": "Heat of the whole axis against load (valves, relief, return line)", "x_label": "Load [kN]",
+            "y_label": "Heat [kW]",
             "x": curve(loads / 1e3),
             "series": {name: curve(np.asarray(s.loss_total) / 1e3) for name, s in sols.items()},
             "limits": {"heat share of drive power":
@@ -206,4 +238,4 @@ def run(values) -> Outcome:
     return Outcome(KIND, TITLE, values, FIELDS, res, findings, figures, regimes)
 
 
-__all__ = ["KIND", "TITLE", "PURPOSE", "FIELDS", "run", "candidates"]
+__all__ = ["KIND", "TITLE", "PURPOSE", "FIELDS", "run", "candidates", "NoMotion"]
