@@ -16,6 +16,7 @@ adding a field to the catalogue is all it takes for records to carry it.
 from __future__ import annotations
 
 import copy
+import itertools
 import json
 from functools import lru_cache
 from importlib import resources
@@ -27,6 +28,10 @@ from ..inputs import IDENTITY, SECTIONS
 SCHEMA_FILES = {1: "record-1.json", 2: "record-2.json"}
 #: the file of the version this library writes
 SCHEMA_FILE = SCHEMA_FILES[2]
+
+
+#: schema problems looked at to choose the one to report (validation stops there)
+MAX_PROBLEMS = 20
 
 
 @lru_cache(maxsize=4)
@@ -112,7 +117,9 @@ def first_problem(document) -> tuple[str, str, str] | None:
 
     version = document.get("schema_version") if isinstance(document, dict) else None
     version = version if version in SCHEMA_FILES and not isinstance(version, bool) else max(SCHEMA_FILES)
-    errors = list(validator(version).iter_errors(document))
+    # the first few problems only: a damaged record with millions of bad parts must not
+    # collect them all (time and memory) before the most relevant one is named
+    errors = list(itertools.islice(validator(version).iter_errors(document), MAX_PROBLEMS))
     if not errors:
         return None
     err = jsonschema.exceptions.best_match(errors)

@@ -59,8 +59,9 @@ _replace = os.replace
 MAX_RECORD_BYTES = 16 * 2 ** 20
 #: the name of the lock file :func:`folder_lock` keeps in a folder
 LOCK_NAME = ".workbook-write.lock"
-#: characters a record's text may hold besides printable ones (notes may run over lines)
-TEXT_ALLOW = "\n\t"
+#: characters a record's text may hold besides printable ones (notes may run over lines; the
+#: command line escapes them when it prints)
+TEXT_ALLOW = "\n\r\t"
 #: what ``tempfile.mkstemp(prefix=".<name>.", suffix=".tmp")`` names: ours to clean up
 _OUR_TEMP = re.compile(r"^\..+\.[A-Za-z0-9_]{8}\.tmp$")
 
