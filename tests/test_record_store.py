@@ -287,3 +287,47 @@ def test_the_json_exchange_form_carries_the_caution(tmp_path):
     document["digest"] = store.digest(document)
     with pytest.raises(RecordError, match="caution"):
         loads(json.dumps(document), "stripped.json")
+
+
+def _v1_document(bores):
+    """A record as schema version 1 stored it: every study held every axis input."""
+    from workbook.record import inputs_from_values
+
+    studies = []
+    for n, bore in enumerate(bores):
+        entries = inputs_from_values({"cylinder": {"bore": bore, "rod": 0.045}, "study": {"points": 200}})
+        studies.append({"key": f"s{n}", "kind": "axis-check", "title": "", "inputs": entries, "results": {},
+                        "findings": [], "figures": {}, "notes": []})
+    doc = {"schema_version": 1, "library_version": "0.1.0", "caution": "Caution: take care.",
+           "identity": {"machine": "BT-2", "axis": "lift"}, "studies": studies, "notes": []}
+    doc["digest"] = store.digest(doc)
+    return json.dumps(doc)
+
+
+def test_a_version_1_record_is_migrated_to_one_block_of_axis_inputs():
+    rec = loads(_v1_document([0.08, 0.08]), "old.json")
+    assert rec.schema_version == 2 and "Migrated from record schema version 1" in rec.notes[-1]
+    assert rec.inputs["cylinder"]["bore"]["si"] == 0.08
+    assert all(set(s.inputs) == {"study"} for s in rec.studies.values())
+    assert rec.study_values("s1")["cylinder"]["bore"] == 0.08 and rec.study_values("s1")["study"]["points"] == 200
+    assert json.loads(to_json(rec))["schema_version"] == 2
+
+
+def test_a_version_1_record_that_mixes_designs_is_refused_with_how_to_regenerate_it():
+    with pytest.raises(RecordError) as info:
+        loads(_v1_document([0.08, 0.0762]), "old.json")
+    text = str(info.value)
+    assert text.startswith("old.json, studies.s1.inputs.cylinder.bore")
+    assert "76.2 mm" in text and "80 mm" in text and "one design per axis record" in text
+    assert "axisbook evaluate" in text
+
+
+def test_a_record_refuses_a_study_run_on_another_design():
+    from workbook.errors import InputError
+    from workbook.record import inputs_from_values
+
+    a = Study("axis-check", inputs=inputs_from_values({"cylinder": {"bore": 0.08}}))
+    b = Study("rod-pressure", inputs=inputs_from_values({"cylinder": {"bore": 0.1}}))
+    rec = Record({"axis": "lift"}).with_study(a)
+    with pytest.raises(InputError, match="one design per axis record"):
+        rec.with_study(b)
