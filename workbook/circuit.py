@@ -646,7 +646,10 @@ def _driven_back(axis: Axis, m: _Model, lay: _Layout, f_ext):
     in, its metering part when it is the reverse check of the other motion) and the holding
     valve on that chamber (forward: ``inlet_pressure`` with its pilot on the other chamber).
     The other chamber refills ``A_o u`` from the tank port (``p_t``) through the flow valve
-    and the holding valve's check; it is clamped at the cavitation limit (its demand kept).
+    and the holding valve's check; where that path cannot keep up (a closed valve passes
+    nothing) the chamber sits at the cavitation limit, its demand kept in ``p*_demand``, and
+    the valves carry only what the path passes at that drop (the rest is void; the cylinder
+    flows stay the swept ones).
     Solved for the line pressure by the same bracketing as the motion. Returns
     ``(mask, state)``: where the load drives the axis back, and the state everywhere.
     """
@@ -659,6 +662,18 @@ def _driven_back(axis: Axis, m: _Model, lay: _Layout, f_ext):
         with np.errstate(over="ignore", invalid="ignore"):
             return fv.pressure_drop(q, rho, mu, o)
 
+    def refill_drop(q):
+        """Drop from the tank port into the refilling chamber at flow ``q``: (total, flow valve part)."""
+        z = np.zeros(shape)
+        if lay.kind == "meter-out":
+            fv_o = _check_drop(fv.check, q)                 # refill back through its check
+        elif lay.fv_check_return:
+            fv_o = flow_valve_fwd_drop(q)                   # refill forward through its metering part
+        else:
+            fv_o = z + 0.0 * q
+        h_o = _check_drop(hold.check, q) if lay.hold_driven else z
+        return fv_o + h_o, fv_o
+
     def state(p_line):
         q_r = m.relief_flow(p_line)
         q_b = m.q_bleed(p_line - pt)
@@ -666,15 +681,18 @@ def _driven_back(axis: Axis, m: _Model, lay: _Layout, f_ext):
         u = big_q / a_d
         q_o = a_o * u
         z = np.zeros(shape)
-        if lay.kind == "meter-out":
-            fv_o = _check_drop(fv.check, q_o)               # refill back through its check
-        elif lay.fv_check_return:
-            fv_o = flow_valve_fwd_drop(q_o)                  # refill forward through its metering part
-        else:
-            fv_o = z
+        p_o_dem = pt - refill_drop(q_o)[0]
+        # where the refill path cannot keep up, the chamber sits at the cavitation limit and
+        # takes what the path passes at that drop (a closed valve: nothing), voiding the rest
+        starved = p_o_dem < m.pcav
+        q_fill = q_o
+        if starved.any():
+            q_max = solve_increasing(lambda q: refill_drop(q)[0] - (pt - m.pcav), np.zeros(shape),
+                                     np.where(starved, q_o, 0.0), 1e-13 * qp + 1e-18, 1.0)
+            q_max = np.where(np.isfinite(refill_drop(q_max)[0]), q_max, 0.0)   # a closed valve passes nothing
+            q_fill = np.where(starved, q_max, q_o)
+        fv_o = refill_drop(q_fill)[1]
         p_mid_o = pt - fv_o
-        h_o = _check_drop(hold.check, q_o) if lay.hold_driven else z
-        p_o_dem = p_mid_o - h_o
         p_o = np.maximum(p_o_dem, m.pcav)
         if lay.kind == "meter-in":
             fv_d = _check_drop(fv.check, big_q)              # back to the line through its check
@@ -683,14 +701,15 @@ def _driven_back(axis: Axis, m: _Model, lay: _Layout, f_ext):
         else:
             fv_d = z
         p_out_h = p_line + fv_d
-        if lay.hold_driving and isinstance(hold, CounterbalanceValve):
-            p_d = hold.inlet_pressure(big_q, p_o, p_out_h)
-        elif lay.hold_driving:
-            p_d = hold.inlet_pressure(big_q, p_out_h)
-        else:
-            p_d = p_out_h
-        return dict(u=u, q=big_q, q_o=q_o, q_r=q_r, q_b=q_b, fv_o=fv_o, fv_d=fv_d, p_mid_o=p_mid_o, p_o=p_o,
-                    p_o_dem=p_o_dem, p_out_h=p_out_h, p_d=p_d)
+        with np.errstate(invalid="ignore"):          # a shut valve on the way: infinite, mapped below
+            if lay.hold_driving and isinstance(hold, CounterbalanceValve):
+                p_d = hold.inlet_pressure(big_q, p_o, p_out_h)
+            elif lay.hold_driving:
+                p_d = hold.inlet_pressure(big_q, p_out_h)
+            else:
+                p_d = p_out_h
+        return dict(u=u, q=big_q, q_o=q_o, q_fill=q_fill, q_r=q_r, q_b=q_b, fv_o=fv_o, fv_d=fv_d, p_mid_o=p_mid_o,
+                    p_o=p_o, p_o_dem=p_o_dem, p_out_h=p_out_h, p_d=p_d)
 
     def resid(p_line):
         st = state(p_line)
@@ -702,7 +721,8 @@ def _driven_back(axis: Axis, m: _Model, lay: _Layout, f_ext):
     p_full = np.full(shape, m.relief_pressure(qp))
     p0 = solve_increasing(lambda p: m.relief_flow(p) + m.q_bleed(p - pt) - qp, np.zeros(shape), p_full,
                           1e-9, 1e-13 * qp)
-    r0 = resid(p0)
+    # just above p0 (a trickle backwards): a refill path that is shut voids at once, so test there
+    r0 = resid(p0 + 1.0)
     p_hi = np.maximum(p0, (f_back + pt * a_o) / a_d) + 1e5
     r_hi = resid(p_hi)
     mask = (r0 < -1e-9 * (np.abs(f_back) + p0 * a_d + 1.0)) & np.isfinite(r_hi)
@@ -710,7 +730,7 @@ def _driven_back(axis: Axis, m: _Model, lay: _Layout, f_ext):
         return mask, {}
     p_line = solve_increasing(resid, p0, np.where(mask, p_hi, p0), 1e-10 * (np.abs(p_hi) + 1.0), 1e-9)
     st = state(p_line)
-    u, big_q, q_o = st["u"], st["q"], st["q_o"]
+    u, big_q, q_o, q_fill = st["u"], st["q"], st["q_o"], st["q_fill"]
     p_d, p_o = st["p_d"], st["p_o"]
     v = -u
     if lay.kind == "meter-in":
@@ -718,9 +738,9 @@ def _driven_back(axis: Axis, m: _Model, lay: _Layout, f_ext):
     elif lay.fv_check_supply:
         q_fv, dp_fv = big_q, st["fv_d"]
     elif lay.kind == "meter-out":
-        q_fv, dp_fv = -q_o, -st["fv_o"]
+        q_fv, dp_fv = -q_fill, -st["fv_o"]
     elif lay.fv_check_return:
-        q_fv, dp_fv = q_o, st["fv_o"]
+        q_fv, dp_fv = q_fill, st["fv_o"]
     elif lay.kind == "bleed-off":
         q_fv, dp_fv = st["q_b"], p_line - pt
     else:
@@ -728,7 +748,7 @@ def _driven_back(axis: Axis, m: _Model, lay: _Layout, f_ext):
     if lay.hold_driving:
         q_h, dp_h, p_mid = big_q, p_d - st["p_out_h"], st["p_out_h"]
     elif lay.hold_driven:
-        q_h, dp_h, p_mid = -q_o, -(st["p_mid_o"] - st["p_o_dem"]), st["p_mid_o"]
+        q_h, dp_h, p_mid = -q_fill, -_check_drop(hold.check, q_fill), st["p_mid_o"]
     else:
         q_h, dp_h, p_mid = np.zeros(shape), np.zeros(shape), st["p_mid_o"]
     p_pilot = p_o if (lay.hold_driving and isinstance(hold, CounterbalanceValve)) else np.zeros(shape)
@@ -743,7 +763,7 @@ def _driven_back(axis: Axis, m: _Model, lay: _Layout, f_ext):
                friction_force=fr, unbalanced_force=np.zeros(shape), p1_demand=p1_dem, p3_demand=p3_dem,
                useful_power=useful, friction_power=fr * v, input_power=p_line * qp,
                loss_flow_valve=np.abs(dp_fv * q_fv), loss_holding=np.abs(dp_h * q_h),
-               loss_relief=(p_line - pt) * q_relief, loss_return_line=pt * (q_relief + st["q_b"] - q_o),
+               loss_relief=(p_line - pt) * q_relief, loss_return_line=pt * (q_relief + st["q_b"] - q_fill),
                efficiency=np.zeros(shape))
     return mask, out
 
