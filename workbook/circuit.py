@@ -256,7 +256,8 @@ class Axis:
 class Solution:
     """Steady state at every point (numpy arrays broadcast from ``load`` and ``temperature``).
 
-    ``speed`` is the magnitude (m/s, >= 0) in ``direction``; ``velocity`` is signed
+    ``speed`` is the speed (m/s) in ``direction``: >= 0, except where the load drives the
+    axis back (regime ``driven back``), where it is negative; ``velocity`` is signed
     (positive extending). Flows are m³/s, pressures Pa gauge, powers W. Valve flows and
     drops follow the valve's own sign (forward positive, reverse through its check
     negative). ``q_void`` is the rate (m³/s) at which a cavitating driving chamber's volume
