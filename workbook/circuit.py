@@ -1101,7 +1101,7 @@ def design_loads(operation: Mapping) -> np.ndarray:
 _QUALIFIED = {
     "rod": "cylinder.rod", "bore": "cylinder.bore", "stroke": "cylinder.stroke",
     "rated_pressure": "cylinder.rated_pressure", "mounting": "cylinder.mounting",
-    "buckling_length": "cylinder.buckling_length",
+    "buckling_length": "cylinder.buckling_length", "rod_yield": "cylinder.rod_yield",
     "relief_full_flow": "supply.relief_full_flow", "relief_cracking": "supply.relief_cracking",
     "volumetric_efficiency": "supply.volumetric_efficiency", "pump_flow": "supply.pump_flow",
     "min_drop": "flow_valve.min_drop", "compensator_drop": "flow_valve.compensator_drop",
