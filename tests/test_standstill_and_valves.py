@@ -350,3 +350,26 @@ def test_the_new_regimes_are_reached_by_the_energy_property():
                 holding_side="cap")
     assert SINKING in set(solve(weak, np.array([30e3, 60e3]), T40, opening=0.0).regime)
     assert DRIVEN_BACK in set(solve(weak, np.array([-120e3]), T40, direction="retract").regime)
+
+
+def test_new_inputs_reach_the_axis_and_bad_ones_name_their_field():
+    """Declared once in the catalogue: parsed with units, bounded, and carried to the physics;
+    a value outside the catalogue's bounds is refused naming section.key (common practice of
+    the workbook's boundary, DEVELOPERS.md "Bad input")."""
+    from workbook.errors import InputError
+    v = values()
+    v["holding"] = inputs.HOLDING.parse({"spring_chamber": "vented", "open_gradient": "0.4 bar/(L/min)"})
+    v["supply"] = inputs.SUPPLY.parse({"overall_efficiency": "0.8"})
+    v["ratings"] = inputs.RATINGS.parse({"cap_line_bore": "12 mm", "line_kind": "steel tube"})
+    v["oil"] = inputs.OIL.parse({"grade": "VG150", "nu40": "150 cSt", "nu100": "14.7 cSt", "air_content": "1 %"})
+    ax = axis_from_values(v)
+    assert ax.holding.spring_chamber == "vented" and ax.holding.open_gradient == pytest.approx(0.4 * BAR / LPM)
+    assert ax.supply.overall_efficiency == pytest.approx(0.8)
+    assert ax.ratings.cap_line_bore == pytest.approx(0.012) and ax.ratings.line_kind == "steel tube"
+    assert ax.air_content == pytest.approx(0.01) and ax.oil.nu40 == pytest.approx(150e-6)
+    for section, entry, field in ((inputs.HOLDING, {"spring_chamber": "sideways"}, "spring_chamber"),
+                                  (inputs.SUPPLY, {"overall_efficiency": "1.5"}, "overall_efficiency"),
+                                  (inputs.CYLINDER, {"rod_yield": "5 MPa"}, "rod_yield")):
+        with pytest.raises(InputError) as e:
+            section.parse(entry)
+        assert field in e.value.field and e.value.allowed
