@@ -172,3 +172,33 @@ def test_compare_into_a_closed_pipe_ends_quietly(tmp_path):
     proc = subprocess.run(["bash", "-c", f"{compare} | true; echo \"rc=${{PIPESTATUS[0]}}\" >&2"],
                           capture_output=True, text=True, timeout=120)
     assert proc.stderr.strip() == "rc=0", proc.stderr
+
+
+@pytest.mark.parametrize("axis", ["lift", "tip"])
+def test_review_copy_opens_with_the_verdict_in_order_and_names_no_internal_key(tmp_path, axis):
+    from workbook.design import load_design
+    from workbook.inputs import SECTIONS
+    from workbook.record import to_html, to_markdown
+    from workbook.review import evaluate_axis
+
+    record, _ = evaluate_axis(load_design(DEMO), axis)
+    page = to_html(record)
+    v = record_verdict(record)
+    section = page[page.index('<section class="verdict"'):]
+    section = section[:section.index("</section>")]
+    rows = re.findall(r'<tr class="row-(fail|caution)">(.*?)</tr>', section, flags=re.S)
+    # every fail, then every caution, in the verdict's order: exactly the record's items
+    assert [lvl for lvl, _ in rows] == [i.level for i in v.items]
+    assert [tuple(_RULE.findall(re.findall(r"<td>(.*?)</td>", r, flags=re.S)[-1])) for _, r in rows] == \
+        [i.rule_ids for i in v.items]
+    levels = [lvl for lvl, _ in rows]
+    assert levels == sorted(levels, key=["fail", "caution"].index)
+    # the verdict comes before any input table
+    assert page.index('id="verdict"') < page.index('id="inputs"') < page.index('class="study"')
+    # labels, not internal keys: no field key is shown as a key (in code or its own cell)
+    for sec in SECTIONS:
+        for f in sec.fields:
+            assert f"<code>{f.key}</code>" not in page and f"<td>{f.key}</td>" not in page, f.key
+    assert "kind rod-pressure" not in page and "Study rod-pressure" not in page
+    md = to_markdown(record)
+    assert md.index("## Verdict of the axis") < md.index("## Design inputs")

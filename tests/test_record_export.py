@@ -98,8 +98,11 @@ def test_every_finding_shows_level_word_value_limit_margin_and_source():
 
 def test_inputs_are_shown_with_their_units_and_labels():
     page = to_html(_record())
-    assert "Bore D" in page and ">80<" in page and ">mm<" in page
-    assert "2, 9" in page and ">kN<" in page and "VG46" in page
+    # the design inputs once, by label with value and unit as people write them; no internal key
+    inputs = page[page.index('id="inputs"'):page.index("</section>", page.index('id="inputs"'))]
+    assert "Bore D" in inputs and ">80 mm<" in inputs
+    assert "2, 9 kN" in inputs and "VG46" in inputs
+    assert "<code>bore</code>" not in page and ">bore<" not in page
 
 
 def test_figures_are_inline_svg_with_dashed_labelled_limits():

@@ -331,3 +331,48 @@ def test_a_record_refuses_a_study_run_on_another_design():
     rec = Record({"axis": "lift"}).with_study(a)
     with pytest.raises(InputError, match="one design per axis record"):
         rec.with_study(b)
+
+
+@pytest.fixture(scope="module")
+def demo_records(tmp_path_factory):
+    """The demo design (demo scenario) evaluated with every study, as the command line saves it."""
+    from workbook.design import load_design
+    from workbook.review import evaluate_design
+
+    out = tmp_path_factory.mktemp("demo-records")
+    design = load_design(Path(__file__).resolve().parents[1] / "notebooks" / "designs" / "bin-tipper.toml")
+    return {axis: save(rec, out / f"bin-tipper-{axis}.json") for axis, (rec, _o) in evaluate_design(design).items()}
+
+
+def _significant_digits(x: float) -> int:
+    mantissa = repr(float(x)).lower().split("e")[0].lstrip("-").replace(".", "").lstrip("0").rstrip("0")
+    return len(mantissa)
+
+
+def test_demo_records_are_small_and_read_line_by_line(demo_records):
+    for axis, path in demo_records.items():
+        text = path.read_text(encoding="utf-8")
+        assert len(text.encode("utf-8")) <= 100_000, (axis, len(text))
+        # one input a line: a changed bore moves one line of the file
+        assert sum('"bore": {"value": ' in line for line in text.splitlines()) == 1
+        # load, then save again: the same bytes
+        assert to_json(load(path)) == text
+
+
+def test_no_stored_display_value_carries_float_noise(demo_records):
+    """A value typed as "36 mm" is stored as 36, not 36.00000000000001: every display value
+    of an input has at most 12 significant digits, as do results and finding numbers."""
+    for path in demo_records.values():
+        doc = json.loads(path.read_text(encoding="utf-8"))
+        numbers = []
+        for sec in doc["inputs"].values():
+            for entry in sec.values():
+                v = entry["value"]
+                numbers += v if isinstance(v, list) else [v] if isinstance(v, (int, float)) and not \
+                    isinstance(v, bool) else []
+        for st in doc["studies"]:
+            numbers += [r["value"] for r in st["results"].values()]
+            numbers += [f[k] for f in st["findings"] for k in ("value", "limit", "margin") if f[k] is not None]
+        assert numbers and all(_significant_digits(v) <= 12 for v in numbers), \
+            [v for v in numbers if _significant_digits(v) > 12][:5]
+        assert doc["inputs"]["cylinder"]["rod"]["value"] in (45.0, 36.0)

@@ -56,12 +56,10 @@ def _num(v, digits: int = 6) -> str:
     return f"{v:.{digits}g}"
 
 
-def _margin(m) -> str:
-    return "" if m is None else f"{m * 100:.3g} %"
-
 
 def _input_rows(inputs):
-    """(section title, [(label, key, value text, unit)]) in catalogue order."""
+    """(section title, [(label, key, value text, unit)]) in catalogue order (an axis without
+    a holding valve shows only its kind: the valve's settings are not part of the design)."""
     order = [s.key for s in SECTIONS] + [k for k in inputs if k not in BY_KEY]
     for sec_key in order:
         entries = inputs.get(sec_key)
@@ -69,6 +67,8 @@ def _input_rows(inputs):
             continue
         sec = BY_KEY.get(sec_key)
         rows = []
+        if sec_key == "holding" and entries.get("kind", {}).get("value") == "none":
+            entries = {"kind": entries["kind"]}
         for key, entry in entries.items():
             try:
                 label = sec[key].label if sec else key
@@ -142,32 +142,28 @@ def to_markdown(record: Record) -> str:
         out += ["## Design inputs", "", "Every study of this record ran on these inputs.", ""]
         for title, rows in _input_rows(record.inputs):
             out += [f"**{_md(title)}**", ""]
-            out += _md_table(["Input", "Key", "Value", "Unit"],
-                             [[_md(lbl), _md(k), _md(v), _md(u)] for lbl, k, v, u in rows])
+            out += _md_table(["Input", "Value"], [[_md(lbl), f"{_md(v)} {_md(u)}".strip()] for lbl, _k, v, u in rows])
     for n, (key, study) in enumerate(record.studies.items(), 1):
-        out += [f"## {n}. {_md(study.title or study.kind)}", "", f"Study {_md(key)}, kind {_md(study.kind)}.", ""]
+        out += [f"## {n}. {_md(study.title or study.kind)}", ""]
         if study.inputs:
-            out += ["### Study settings", ""]
-            for title, rows in _input_rows(study.inputs):
-                out += [f"**{_md(title)}**", ""]
-                out += _md_table(["Input", "Key", "Value", "Unit"],
-                                 [[_md(lbl), _md(k), _md(v), _md(u)] for lbl, k, v, u in rows])
+            settings = [f"{_md(lbl)} {_md(v)} {_md(u)}".strip() for _t, rows in _input_rows(study.inputs)
+                        for lbl, _k, v, u in rows]
+            out += ["**Study settings:** " + "; ".join(settings), ""]
         if study.results:
             out += ["### Results", ""]
-            out += _md_table(["Result", "Key", "Value", "Unit"],
-                             [[_md(r["label"]), _md(k), _num(r["value"], 5), _md(pretty_unit(r["unit"]))]
-                              for k, r in study.results.items()])
+            out += _md_table(["Result", "Value"],
+                             [[_md(r["label"]), f"{_num(r['value'], 4)} {_md(pretty_unit(r['unit']))}".strip()]
+                              for r in study.results.values()])
         if study.findings:
-            out += ["### Findings", ""]
+            out += ["### Checks of this study", ""]
             rows = []
             for f in study.findings:
-                statement = _md(f["statement"]) + (f" ({_md(f['detail'])})" if f["detail"] else "")
                 unit = _md(pretty_unit(f["unit"]))
-                rows.append([f"{LEVEL_MARK[f['level']]} **{LEVEL_WORD[f['level']]}**", _md(f["rule_id"]),
-                             statement, f"{_num(f['value'], 5)} {unit}".strip() if f["value"] is not None else "",
-                             f"{_num(f['limit'], 5)} {unit}".strip() if f["limit"] is not None else "",
-                             _margin(f["margin"]), _md(f["source"])])
-            out += _md_table(["Level", "Rule", "Statement", "Value", "Limit", "Margin", "Source"], rows)
+                rows.append([f"{LEVEL_MARK[f['level']]} **{LEVEL_WORD[f['level']]}**", _md(f["statement"]),
+                             f"{_num(f['value'], 4)} {unit}".strip() if f["value"] is not None else "",
+                             f"{_num(f['limit'], 4)} {unit}".strip() if f["limit"] is not None else "",
+                             margin_text(f["margin"]) if f["margin"] is not None else "", _md(f["source"])])
+            out += _md_table(["Level", "Check", "Value", "Limit", "Margin", "Source"], rows)
         if study.figures:
             out += ["### Figures", ""]
             for name, fig in study.figures.items():
@@ -195,16 +191,16 @@ def export_markdown(record: Record, path) -> Path:
 _CSS = f"""
 :root {{ --accent: {ACCENT}; }}
 * {{ box-sizing: border-box; }}
-body {{ margin: 2rem auto; max-width: 62rem; padding: 0 1rem; color: #000; background: #fff;
-  font: 15px/1.45 system-ui, -apple-system, "Segoe UI", Roboto, Helvetica, Arial, sans-serif; }}
+body {{ margin: 1.2rem auto; max-width: 90rem; padding: 0 1rem; color: #000; background: #fff;
+  font: 13.5px/1.3 system-ui, -apple-system, "Segoe UI", Roboto, Helvetica, Arial, sans-serif; }}
 h1 {{ font-size: 1.6rem; margin: 0 0 .8rem; border-bottom: 3px solid var(--accent); padding-bottom: .3rem; }}
-h2 {{ font-size: 1.25rem; margin: 2rem 0 .4rem; border-bottom: 1px solid #000; }}
+h2 {{ font-size: 1.2rem; margin: 1.2rem 0 .3rem; border-bottom: 1px solid #000; }}
 h3 {{ font-size: 1.02rem; margin: 1.2rem 0 .3rem; color: var(--accent); }}
 h4 {{ font-size: .95rem; margin: .8rem 0 .2rem; }}
 .caution {{ border: 2px solid #000; border-left: 10px solid var(--accent); padding: .6rem .9rem;
   margin: 0 0 1.2rem; font-weight: 600; }}
 table {{ border-collapse: collapse; margin: .2rem 0 .8rem; width: 100%; }}
-th, td {{ text-align: left; vertical-align: top; padding: .22rem .55rem; border-bottom: 1px solid #ccc; }}
+th, td {{ text-align: left; vertical-align: top; padding: .15rem .5rem; border-bottom: 1px solid #ccc; }}
 th {{ border-bottom: 2px solid #000; font-weight: 600; }}
 td.num {{ text-align: right; font-variant-numeric: tabular-nums; white-space: nowrap; }}
 code {{ font-family: ui-monospace, Menlo, Consolas, monospace; font-size: .9em; }}
@@ -214,13 +210,19 @@ code {{ font-family: ui-monospace, Menlo, Consolas, monospace; font-size: .9em; 
 .level-caution {{ color: #000; }}
 .level-pass {{ color: #333; font-weight: 600; }}
 tr.row-fail td {{ background: #f3f3f3; }}
-table.inputs td:nth-child(1), table.inputs th:nth-child(1) {{ width: 42%; }}
-table.inputs td:nth-child(2), table.inputs th:nth-child(2) {{ width: 26%; }}
-table.inputs td:nth-child(3), table.inputs th:nth-child(3) {{ width: 18%; }}
-table.inputs {{ table-layout: fixed; }}
+.cards {{ display: grid; grid-template-columns: repeat(auto-fill, minmax(21rem, 1fr)); gap: .2rem 1.2rem;
+  align-items: start; }}
+.cards h4 {{ margin: .4rem 0 0; }}
+.cards.two {{ grid-template-columns: 1fr 1fr; }}
+.cards table {{ margin: 0; }}
+.figures {{ display: grid; grid-template-columns: repeat(auto-fill, minmax(27rem, 1fr)); gap: .4rem 1rem; }}
+table.verdict td:nth-child(2) {{ min-width: 24rem; }}
+.settings {{ margin: .2rem 0 .4rem; }}
+abbr.source {{ text-decoration: none; border-bottom: 1px dotted #666; cursor: help; }}
+.source {{ white-space: nowrap; }}
 .summary span {{ margin-right: 1.2rem; }}
 .meta {{ color: #444; font-size: .88rem; }}
-figure {{ margin: .6rem 0 1rem; }}
+figure {{ margin: .3rem 0 .6rem; }}
 figcaption {{ font-weight: 600; margin-bottom: .2rem; }}
 svg.chart {{ max-width: 100%; height: auto; font-family: inherit; }}
 footer {{ margin-top: 2.5rem; border-top: 1px solid #000; padding-top: .4rem; font-size: .85rem; }}
@@ -252,43 +254,60 @@ def _level_html(level: str) -> str:
             f"{LEVEL_WORD[level]}</span>")
 
 
+def _source_html(source: str, limit: int = 40) -> str:
+    """A source, shortened to ``limit`` characters on screen with the full text on hover
+    (and in print, where the whole text is shown)."""
+    if len(source) <= limit:
+        return f'<span class="source">{_esc(source)}</span>'
+    short = source[:limit].rsplit(" ", 1)[0].rstrip(";,(") + " …"
+    return f'<abbr class="source" title="{_esc(source)}">{_esc(short)}</abbr>'
+
+
+def _cards(rows_by_section) -> str:
+    out = ['<div class="cards">']
+    for title, rows in rows_by_section:
+        out.append(f"<div><h4>{_esc(title)}</h4>")
+        out.append(_table(["Input", "Value"], [[_esc(lbl), f"{_esc(v)} {_esc(u)}".strip()] for lbl, _k, v, u in rows],
+                          num_cols=(1,), cls="inputs"))
+        out.append("</div>")
+    out.append("</div>")
+    return "".join(out)
+
+
 def _study_html(n: int, key: str, study: Study) -> str:
-    out = [f'<section class="study" id="study-{n}">', f"<h2>{n}. {_esc(study.title or study.kind)}</h2>",
-           f'<p class="meta">Study <code>{_esc(key)}</code>, kind <code>{_esc(study.kind)}</code></p>']
+    out = [f'<section class="study" id="study-{n}">', f"<h2>{n}. {_esc(study.title or study.kind)}</h2>"]
     if study.inputs:
-        out.append("<h3>Study settings</h3>")
-        for title, rows in _input_rows(study.inputs):
-            out.append(f"<h4>{_esc(title)}</h4>")
-            out.append(_table(["Input", "Key", "Value", "Unit"],
-                              [[_esc(lbl), f"<code>{_esc(k)}</code>", _esc(v), _esc(u)] for lbl, k, v, u in rows],
-                              num_cols=(2,), cls="inputs"))
+        settings = [f"{_esc(lbl)} {_esc(v)} {_esc(u)}".strip() for _t, rows in _input_rows(study.inputs)
+                    for lbl, _k, v, u in rows]
+        out.append(f'<p class="settings"><b>Study settings:</b> {"; ".join(settings)}</p>')
     if study.results:
-        out.append("<h3>Results</h3>")
-        out.append(_table(["Result", "Key", "Value", "Unit"],
-                          [[_esc(r["label"]), f"<code>{_esc(k)}</code>", _esc(_num(r["value"], 5)),
-                            _esc(pretty_unit(r["unit"]))] for k, r in study.results.items()], num_cols=(2,),
-                          cls="inputs"))
+        rows = [[_esc(r["label"]), f"{_esc(_num(r['value'], 4))} {_esc(pretty_unit(r['unit']))}".strip()]
+                for r in study.results.values()]
+        half = (len(rows) + 1) // 2
+        out.append('<h3>Results</h3><div class="cards two">'
+                   + "".join(f"<div>{_table(['Result', 'Value'], part, num_cols=(1,))}</div>"
+                             for part in (rows[:half], rows[half:]) if part) + "</div>")
     if study.findings:
-        out.append("<h3>Findings</h3>")
+        out.append("<h3>Checks of this study</h3>")
         rows, classes = [], []
         for f in study.findings:
             unit = _esc(pretty_unit(f["unit"]))
-            statement = _esc(f["statement"])
-            if f["quantity"]:
-                statement += f'<br><span class="meta">{_esc(f["quantity"])}</span>'
-            if f["detail"]:
-                statement += f'<br><span class="meta">{_esc(f["detail"])}</span>'
-            rows.append([_level_html(f["level"]), f"<code>{_esc(f['rule_id'])}</code>", statement,
-                         f"{_esc(_num(f['value'], 5))} {unit}".strip() if f["value"] is not None else "",
-                         f"{_esc(_num(f['limit'], 5))} {unit}".strip() if f["limit"] is not None else "",
-                         _esc(_margin(f["margin"])), _esc(f["source"])])
+            # the worst case of a fail or caution is in the verdict above; a pass needs none
+            statement = f'<span title="{_esc(f["detail"])}">{_esc(f["statement"])}</span>' if f["detail"] \
+                else _esc(f["statement"])
+            rows.append([_level_html(f["level"]), statement,
+                         f"{_esc(_num(f['value'], 4))} {unit}".strip() if f["value"] is not None else "",
+                         f"{_esc(_num(f['limit'], 4))} {unit}".strip() if f["limit"] is not None else "",
+                         _esc(margin_text(f["margin"]) if f["margin"] is not None else ""),
+                         _source_html(f["source"], 32)])
             classes.append(f"row-{f['level']}")
-        out.append(_table(["Level", "Rule", "Statement", "Value", "Limit", "Margin", "Source"], rows,
-                          num_cols=(3, 4, 5), row_classes=classes))
+        out.append(_table(["Level", "Check", "Value", "Limit", "Margin", "Source"], rows,
+                          num_cols=(2, 3, 4), row_classes=classes))
     if study.figures:
-        out.append("<h3>Figures</h3>")
+        out.append('<div class="figures">')
         for fig in study.figures.values():
             out.append(f"<figure><figcaption>{_esc(fig['title'])}</figcaption>{line_chart(fig)}</figure>")
+        out.append("</div>")
     if study.notes:
         out.append("<h3>Notes</h3><ul>" + "".join(f"<li>{_esc(t)}</li>" for t in study.notes) + "</ul>")
     out.append("</section>")
@@ -306,10 +325,13 @@ def to_html(record: Record) -> str:
     vrows, vclasses = [], []
     for lvl, text, case, value, limit, margin, source, found in _verdict_rows(record):
         breach = _esc(text) + (f'<br><span class="meta">{_esc(case)}</span>' if case else "")
-        vrows.append([_level_html(lvl), breach, _esc(value), _esc(limit), _esc(margin), _esc(source), _esc(found)])
+        vrows.append([_level_html(lvl), breach, _esc(value), _esc(limit), _esc(margin), _source_html(source),
+                      _esc(found)])
         vclasses.append(f"row-{lvl}")
     verdict_html = ['<section class="verdict" id="verdict"><h2>Verdict of the axis</h2>',
-                    f'<p class="summary">Findings: {summary}</p>']
+                    f'<p class="summary">Findings: {summary}</p>',
+                    '<p class="meta">Every fail and caution of the axis, once each, worded as the breach with its '
+                    "worst case; each study below lists its own checks again with their margins.</p>"]
     if vrows:
         verdict_html.append(_table(["Level", "Breach", "Value", "Limit", "Margin", "Source", "Found by"], vrows,
                                    num_cols=(2, 3, 4), row_classes=vclasses, cls="verdict"))
@@ -319,13 +341,8 @@ def to_html(record: Record) -> str:
     inputs_html = []
     if record.inputs:
         inputs_html = ['<section class="inputs" id="inputs"><h2>Design inputs</h2>',
-                       "<p>Every study of this record ran on these inputs.</p>"]
-        for title, rows in _input_rows(record.inputs):
-            inputs_html.append(f"<h4>{_esc(title)}</h4>")
-            inputs_html.append(_table(["Input", "Key", "Value", "Unit"],
-                                      [[_esc(lbl), f"<code>{_esc(k)}</code>", _esc(v), _esc(u)]
-                                       for lbl, k, v, u in rows], num_cols=(2,), cls="inputs"))
-        inputs_html.append("</section>")
+                       "<p>Every study of this record ran on these inputs.</p>",
+                       _cards(_input_rows(record.inputs)), "</section>"]
     parts = [
         "<!DOCTYPE html>",
         '<html lang="en"><head><meta charset="utf-8">',
@@ -334,7 +351,8 @@ def to_html(record: Record) -> str:
         f"<style>{_CSS}</style></head><body>",
         f"<header><h1>{heading}</h1>",
         f'<p class="caution" role="note">{_esc(CAUTION)}</p>',
-        _table(["Identity", ""], ident_rows), "</header>",
+        '<p class="meta identity">' + " &middot; ".join(f"{lbl}: {val}" for lbl, val in ident_rows) + "</p>",
+        "</header>",
         "<main>", *verdict_html, *inputs_html,
     ]
     parts += [_study_html(n, key, s) for n, (key, s) in enumerate(record.studies.items(), 1)]

@@ -320,14 +320,31 @@ def _entry_from_si(f: Field, si: Any, where: str) -> dict:
         if f.dimension == "quantity_list":
             si_list = _numbers(si, where)
             f.parse([_si_quantity(v, f.list_dimension) for v in si_list])
-            return {"value": [float(v) for v in f.to_display(si_list)], "unit": f.unit, "si": si_list}
+            return {"value": [_display(f, v, f.list_dimension) for v in si_list], "unit": f.unit, "si": si_list}
         si = _number(si, where, f"an SI {f.dimension.replace('_', ' ')} as a finite number")
         f.parse(_si_quantity(si, f.dimension))
-        return {"value": float(f.to_display(si)), "unit": f.unit, "si": si}
+        return {"value": _display(f, si, f.dimension), "unit": f.unit, "si": si}
     except InputError as exc:
         if exc.field.startswith(where):
             raise
         raise type(exc)(where, exc.given, exc.allowed) from None
+
+
+def _display(f: Field, si: float, dimension: str) -> float:
+    """The display value of ``si``: the shortest decimal in the field's unit that converts
+    back to exactly ``si`` (a rod typed as "36 mm" is stored as 36, not 36.00000000000001);
+    the full conversion when no shorter one does."""
+    full = float(units.from_si(si, dimension, f.unit)) if f.unit else float(si)
+    if not f.unit or not math.isfinite(full) or full == 0:
+        return full
+    for digits in (6, 9, 12, 15):
+        short = float(f"{full:.{digits}g}")
+        try:
+            if units.to_si(short, dimension, f.key, default_unit=f.unit) == si:
+                return short
+        except InputError:
+            break
+    return full
 
 
 def values_from_inputs(inputs: Mapping[str, Mapping[str, Any]]) -> dict:

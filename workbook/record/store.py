@@ -84,11 +84,40 @@ def digest(content: Any) -> str:
     return "sha256:" + hashlib.sha256(canonical_json(content).encode("utf-8")).hexdigest()
 
 
+def _pretty(value: Any, indent: int = 0) -> str:
+    """JSON text for review in a diff: one key a line, but a list of numbers (a curve, the
+    loads of an input) or a small entry on a line of its own, so that a changed input or
+    result moves one line and a changed curve one line per series."""
+    pad = "  " * indent
+    inner = "  " * (indent + 1)
+    if isinstance(value, dict):
+        if not value:
+            return "{}"
+        flat = json.dumps(value, ensure_ascii=False, allow_nan=False)
+        if all(not isinstance(v, (dict, list)) or (isinstance(v, list) and not any(isinstance(x, (dict, list))
+                                                                                      for x in v))
+               for v in value.values()) and len(flat) <= 100:
+            return flat
+        items = [f"{inner}{json.dumps(k, ensure_ascii=False)}: {_pretty(v, indent + 1)}" for k, v in value.items()]
+        return "{\n" + ",\n".join(items) + "\n" + pad + "}"
+    if isinstance(value, list):
+        if not any(isinstance(v, (dict, list)) for v in value):
+            return json.dumps(value, ensure_ascii=False, allow_nan=False)
+        items = [f"{inner}{_pretty(v, indent + 1)}" for v in value]
+        return "[\n" + ",\n".join(items) + "\n" + pad + "]"
+    return json.dumps(value, ensure_ascii=False, allow_nan=False)
+
+
 def to_json(record: Record) -> str:
-    """The JSON exchange text of ``record`` (indented, with its digest)."""
+    """The JSON exchange text of ``record`` (indented for review, with its digest).
+
+    Objects have one key a line; lists of numbers and small flat entries stay on one line,
+    so a reviewer's diff reads line by line (see :func:`_pretty`). The digest covers the
+    canonical form, not this layout.
+    """
     content = record.to_dict()
     document = dict(content, digest=digest(content))
-    return json.dumps(document, indent=2, ensure_ascii=False, allow_nan=False) + "\n"
+    return _pretty(document) + "\n"
 
 
 def _file_mode(path: Path) -> int:

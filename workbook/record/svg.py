@@ -20,7 +20,7 @@ ACCENT = "#1d5b79"
 _COLOURS = ("#000000", ACCENT, "#555555", ACCENT, "#000000", "#555555")
 _MARKERS = ("circle", "square", "triangle", "diamond", "cross", "bar")
 W, H = 640, 340
-LEFT, RIGHT, TOP, BOTTOM = 70, 130, 16, 48
+LEFT, RIGHT, TOP, BOTTOM = 70, 16, 16, 48
 
 
 def _esc(text) -> str:
@@ -54,7 +54,7 @@ def nice_ticks(lo: float, hi: float, count: int = 6) -> list[float]:
     >>> nice_ticks(0.0, 9.3)
     [0.0, 2.0, 4.0, 6.0, 8.0, 10.0]
     >>> nice_ticks(1.0, 1.0000000000000002)
-    [0.8, 0.9, 1.0, 1.1, 1.2]
+    [0.85, 0.9, 0.95, 1.0, 1.05, 1.1, 1.15]
     >>> len(nice_ticks(-1.7e308, 1.7e308)) >= 2
     True
     """
@@ -69,8 +69,9 @@ def nice_ticks(lo: float, hi: float, count: int = 6) -> list[float]:
     if hi - lo <= _FLAT * size or hi == lo:
         pad = size * 0.1 or 1.0
         lo, hi = lo - pad, hi + pad
-    span = _nice(hi - lo, False)
-    step = _nice(span / max(count - 1, 1), True)
+    # the step from the data's own span (not a rounded-up span): the axis ends at most one
+    # step beyond the data and the limits
+    step = _nice((hi - lo) / max(count - 1, 1), True)
     start = math.floor(lo / step) * step
     stop = math.ceil(hi / step) * step
     n = max(1, min(int(round((stop - start) / step)), 50))
@@ -163,12 +164,15 @@ def line_chart(figure: dict) -> str:
                  f'font-size="12">{_esc(figure.get("x_label", ""))}</text>')
     parts.append(f'<text transform="translate(16,{TOP + plot_h / 2:.1f}) rotate(-90)" text-anchor="middle" '
                  f'font-size="12">{_esc(figure.get("y_label", ""))}</text>')
-    # limits: dashed, labelled at the right end
+    # limits: dashed, labelled inside the plot at the right end, just above the line (on a
+    # white halo so a curve under the label does not hide it); never cut off at the edge
     for label, value in limits.items():
         y = py(value)
         parts.append(f'<line class="limit" x1="{LEFT}" y1="{y:.1f}" x2="{LEFT + plot_w}" y2="{y:.1f}" '
                      f'stroke="#000" stroke-width="1.5" stroke-dasharray="7 4"/>')
-        parts.append(f'<text x="{LEFT + plot_w + 6}" y="{y + 4:.1f}" font-size="11">'
+        ty = y - 4 if y - 14 > TOP else y + 13
+        parts.append(f'<text class="limit-label" x="{LEFT + plot_w - 4}" y="{ty:.1f}" text-anchor="end" '
+                     f'font-size="11" paint-order="stroke" stroke="#fff" stroke-width="3">'
                      f"{_esc(label)} {_esc(_fmt(value))}</text>")
     # series: solid lines, gaps at None, markers at no more than 12 points
     for i, (label, ys) in enumerate(series.items()):

@@ -117,17 +117,64 @@ def curve(values) -> np.ndarray:
     return arr
 
 
-def as_list(values) -> list:
-    """A curve as the record stores it: floats, with gaps as None."""
+#: most points a recorded curve keeps (a review figure needs no more; the panel draws all)
+RECORD_POINTS = 121
+#: significant digits of a recorded curve point (what a figure can show)
+CURVE_DIGITS = 4
+#: significant digits of a recorded result or finding number (beyond any tolerance of recheck,
+#: short of the float noise of a unit conversion: 36.00000000000001 mm is stored as 36)
+NUMBER_DIGITS = 12
+
+
+def tidy(value: float, digits: int = NUMBER_DIGITS) -> float:
+    """``value`` to ``digits`` significant digits, as the shortest float that prints so.
+
+    >>> tidy(36.00000000000001), tidy(210.00000000000003), tidy(269.73124551234567)
+    (36.0, 210.0, 269.731245512)
+    """
+    v = float(value)
+    return float(f"{v:.{digits}g}") if math.isfinite(v) and v != 0 else v
+
+
+def as_list(values, digits: int = CURVE_DIGITS) -> list:
+    """A curve as the record stores it: floats to ``digits`` significant digits, gaps as None."""
     arr = np.asarray(values, dtype=float).ravel()
-    return [float(v) if math.isfinite(v) else None for v in arr]
+    return [tidy(v, digits) if math.isfinite(v) else None for v in arr]
+
+
+def _record_index(n: int) -> np.ndarray:
+    """Indices of the points a recorded curve keeps: all, or ``RECORD_POINTS`` evenly spread
+    (both ends kept)."""
+    if n <= RECORD_POINTS:
+        return np.arange(n)
+    return np.unique(np.round(np.linspace(0, n - 1, RECORD_POINTS)).astype(int))
 
 
 def figures_for_record(figures: Mapping) -> dict:
-    """Figures with their curves as lists (the record's JSON form)."""
-    return {key: {**fig, "x": as_list(fig["x"]),
-                  "series": {name: as_list(ys) for name, ys in fig["series"].items()}}
-            for key, fig in figures.items()}
+    """Figures as the record stores them: curves as lists, at most :data:`RECORD_POINTS`
+    points at :data:`CURVE_DIGITS` significant digits (a review figure's precision; the
+    record stays small and its diff readable), limits to :data:`NUMBER_DIGITS`."""
+    out = {}
+    for key, fig in figures.items():
+        x = np.asarray(fig["x"], dtype=float).ravel()
+        idx = _record_index(x.size)
+        out[key] = {**fig, "x": as_list(x[idx]),
+                    "series": {name: as_list(np.asarray(ys, dtype=float).ravel()[idx])
+                               for name, ys in fig["series"].items()},
+                    "limits": {name: tidy(v) for name, v in fig.get("limits", {}).items()}}
+    return out
+
+
+def _tidy_result(r: Mapping) -> dict:
+    return {**r, "value": tidy(r["value"])} if isinstance(r.get("value"), (int, float)) else dict(r)
+
+
+def _tidy_finding(f: Mapping) -> dict:
+    out = dict(f)
+    for k in ("value", "limit", "margin"):
+        if isinstance(out.get(k), (int, float)) and not isinstance(out.get(k), bool):
+            out[k] = tidy(out[k])
+    return out
 
 
 @dataclass
@@ -175,7 +222,8 @@ class Outcome:
     def to_study(self, notes: Iterable[str] = ()) -> Study:
         """The study as the design record stores it."""
         return Study(kind=self.kind, title=self.title, inputs=inputs_from_values(self.recorded_values()),
-                     results=self.results, findings=self.findings, figures=figures_for_record(self.figures),
+                     results={k: _tidy_result(r) for k, r in self.results.items()},
+                     findings=[_tidy_finding(f) for f in self.findings], figures=figures_for_record(self.figures),
                      notes=list(self.notes) + list(notes))
 
     def summary(self) -> str:
