@@ -21,6 +21,7 @@ RANK = {
     "ui": 8,
     "tools": 9,
     "cli": 9, "__main__": 9,
+    "cycle": 3, "cycle_file": 7,
 }
 PHYSICS = {"fluid", "restrictor", "cylinder", "supply", "valve", "circuit"}
 

@@ -70,7 +70,7 @@ from .inputs import AXIS_SECTIONS, IDENTITY
 #: key of the identity field that the [machine] table spells differently
 _MACHINE_RENAME = {"machine": "name"}
 #: top-level tables of a design file
-TOP_LEVEL = ("machine", "defaults", "axes")
+TOP_LEVEL = ("machine", "defaults", "axes", "cycle")
 _BARE_NUMBER = re.compile(r"^\s*[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?\s*$")
 _BARE_KEY = re.compile(r"^[A-Za-z0-9_-]+$")
 #: an axis key becomes part of a file name: letters, digits, "-" and "_", at most 64
@@ -214,6 +214,8 @@ class Design:
     axes: dict
     source: str = dc_field(default="", compare=False)
     lines: dict = dc_field(default_factory=dict, compare=False, repr=False)
+    #: the machine cycle (``[cycle]``, :func:`workbook.cycle_file.parse_cycle`), or None
+    cycle: Any = dc_field(default=None, compare=False, repr=False)
 
     def identity_for(self, axis_key: str) -> dict:
         """The identity of the record of ``axis_key`` (catalogue keys, catalogue order)."""
@@ -244,6 +246,7 @@ class _Parser:
         self.name = name
         if text.startswith("\ufeff"):  # a byte-order mark some editors write: not part of the TOML
             text = text[1:]
+        self.text = text
         try:
             self.lines = key_lines(text)
             self.data = tomllib.loads(text)
@@ -298,7 +301,12 @@ class _Parser:
             if not SAFE_AXIS_KEY.match(axis_key):
                 self.fail(("axes", axis_key), f"the axis key {axis_key!r}", SAFE_AXIS_WORDS)
             axes[axis_key] = self.axis(axis_key, spec, defaults)
-        return Design(machine, axes, self.name, self.lines)
+        cycle = None
+        if "cycle" in data:
+            from .cycle_file import parse_cycle
+
+            cycle = parse_cycle(data["cycle"], axes, self)
+        return Design(machine, axes, self.name, self.lines, cycle)
 
     def machine(self, table: Any) -> dict:
         known = machine_fields()

@@ -302,6 +302,53 @@ STUDY = Section(
     ),
 )
 
+#: the machine cycle's own inputs (the ``[cycle]`` table of a design file, read by
+#: :mod:`workbook.cycle_file`); machine-level, so not one of the axis sections
+CYCLE = Section(
+    "cycle",
+    "Machine cycle and tank",
+    (
+        Field("cycles_per_hour", "Cycles per hour", "dimensionless", "", 40, low=0, low_open=True, high=36000,
+              help="how often the whole cycle repeats; the time the steps leave free is idle time",
+              source="demo scenario"),
+        Field("idle", "Pump during dwells", "choice", default="relief", choices=("relief", "unloaded"),
+              help="against the relief valve at its full-flow pressure, or unloaded to tank at the unloading "
+                   "pressure", source="demo scenario"),
+        Field("unload_pressure", "Unloading pressure", "pressure", "bar", 5, low=0, high=100,
+              help="pump pressure with the pump unloaded to tank (valve and return line)",
+              source="from memory (3 to 8 bar through an unloading valve and filter)"),
+        Field("ambient", "Ambient temperature", "temperature", "degC", 25, low=-40, high=80,
+              help="air around the tank", source="demo scenario"),
+        Field("oil_max", "Highest oil temperature", "temperature", "degC", 60, low=0, high=150,
+              help="the steady oil temperature the power unit must hold",
+              source="common practice for mineral oil (the oil maker's data decide)"),
+        Field("tank_volume", "Tank oil volume", "volume", "L", 100, low=0, low_open=True, high=100000,
+              help="oil in the tank", source="demo scenario"),
+        Field("tank_surface", "Tank heat-shedding surface", "area", "m**2", None, low=0, low_open=True, high=1000,
+              optional=True, help="wetted surface of the tank walls (empty: 5 V^(2/3), a cube of the oil "
+                                  "volume without its top)", source="common practice (from memory)"),
+        Field("heat_transfer", "Tank heat transfer coefficient, W/(m² K)", "dimensionless", "", 12, low=1, high=200,
+              help="natural convection and radiation of a steel tank in still air, in W/(m² K)",
+              source="from memory (10 to 15 W/(m² K) for a steel tank in still air)"),
+        Field("steel_mass", "Tank and unit steel mass", "mass", "kg", None, low=0, high=1e6, optional=True,
+              help="steel that warms with the oil (empty: the walls and lid at 3 mm)",
+              source="common practice (from memory)"),
+        Field("oil_specific_heat", "Oil specific heat, J/(kg K)", "dimensionless", "", 1900, low=500, high=5000,
+              help="specific heat capacity of the oil, in J/(kg K)",
+              source="from memory (mineral oil about 1.9 kJ/(kg K))"),
+        Field("cooler_duty", "Installed cooler duty", "power", "kW", 0, low=0, high=10000,
+              help="heat the cooler removes at the highest oil temperature (0: no cooler); thermostatic",
+              source="demo scenario"),
+        Field("motor_overload", "Motor short-time overload", "dimensionless", "", 1.25, low=1, high=3,
+              help="peak shaft power allowed over the installed drive power for a short step",
+              source="from memory (standard induction motors carry 1.25 to 1.5 times rated briefly; the "
+                     "motor maker's duty-cycle data decide)"),
+        Field("tank_minutes", "Tank volume, minutes of pump flow", "dimensionless", "", 3, low=0.5, high=20,
+              help="smallest tank volume as minutes of pump flow (caution below)",
+              source="common practice (3 to 5 times the pump's flow per minute)"),
+    ),
+)
+
 #: every section, in design-file order
 SECTIONS: tuple[Section, ...] = (IDENTITY, CYLINDER, OIL, SUPPLY, FLOW_VALVE, HOLDING, OPERATION, RATINGS, LIMITS,
                                  STUDY)
@@ -318,4 +365,4 @@ def section(key: str) -> Section:
 
 
 __all__ = ["SECTIONS", "AXIS_SECTIONS", "BY_KEY", "section",
-           "STUDY", "IDENTITY", "CYLINDER", "OIL", "SUPPLY", "FLOW_VALVE", "HOLDING", "OPERATION", "RATINGS", "LIMITS"]
+           "STUDY", "CYCLE", "IDENTITY", "CYLINDER", "OIL", "SUPPLY", "FLOW_VALVE", "HOLDING", "OPERATION", "RATINGS", "LIMITS"]

@@ -50,6 +50,7 @@ from .design import Design, DesignFileError
 from .errors import InputError
 from .inputs import AXIS_SECTIONS, BY_KEY
 from .record import LevelChange, Record, Study, diff
+from .studies import machine_cycle as _machine
 from .studies.whole_axis import DEFAULT_STUDIES, evaluate as evaluate_values, not_applicable
 #: default relative tolerance of :func:`recheck`
 RTOL = 1e-6
@@ -145,6 +146,28 @@ def evaluate_design(design: Design, studies: Sequence[str] = DEFAULT_STUDIES,
         if key not in design.axes:
             raise design.error("axes", repr(key), "one of the axes of the design: " + ", ".join(design.axes))
     return {key: evaluate_axis(design, key, studies) for key in design.axes if key in wanted}
+
+
+def evaluate_machine(design: Design):
+    """``(Record, MachineOutcome)`` of the design's machine cycle, or None without a ``[cycle]``.
+
+    The record is an ordinary record with identity axis ``"machine"`` holding the study
+    :mod:`workbook.studies.machine_cycle` (its inputs in the study's note, so that
+    :func:`recheck` re-runs it). A refusal is located at ``cycle`` in the design file.
+    """
+    if design.cycle is None:
+        return None
+    try:
+        outcome = _machine.run_machine({k: a.values for k, a in design.axes.items()}, design.cycle)
+    except DesignFileError:
+        raise
+    except InputError as exc:
+        key = exc.field if exc.field.startswith(("axes.", "cycle")) else f"cycle.{exc.field}"
+        raise design.error(key, exc.given, exc.allowed) from None
+    ident = design.identity_for(next(iter(design.axes)))
+    record = _machine.to_record(outcome, ident, notes=[f"Evaluated from {design.source or 'a design file'}, "
+                                                       "the machine cycle over every axis."])
+    return record, outcome
 
 
 # ---------------------------------------------------------------------------- recheck
@@ -287,6 +310,17 @@ def recheck(record: Record, rtol: float = RTOL, atol: float = ATOL) -> RecheckRe
     new = record
     refused, unknown, filled, rerun = [], [], [], []
     for key, study in record.studies.items():
+        if study.kind == _machine.KIND:  # the machine record: re-run on the inputs its study holds
+            try:
+                outcome = _machine.run_machine(*_machine.record_inputs(record))
+            except InputError as exc:
+                refused.append((key, str(exc)))
+                continue
+            fresh = outcome.to_study()
+            new = new.with_study(Study(study.kind, study.title, inputs=study.inputs, results=fresh.results,
+                                       findings=fresh.findings, figures=fresh.figures, notes=study.notes), key=key)
+            rerun.append(key)
+            continue
         if study.kind not in _studies.KINDS:
             unknown.append((key, study.kind))
             continue
@@ -331,5 +365,5 @@ def recheck(record: Record, rtol: float = RTOL, atol: float = ATOL) -> RecheckRe
                          drifts, levels, figures, refused, unknown, filled, rerun)
 
 
-__all__ = ["evaluate_design", "evaluate_axis", "recheck", "RecheckReport", "Drift", "DEFAULT_STUDIES",
+__all__ = ["evaluate_design", "evaluate_axis", "evaluate_machine", "recheck", "RecheckReport", "Drift", "DEFAULT_STUDIES",
            "not_applicable", "design_key", "rerun_values", "RTOL", "ATOL"]
