@@ -729,7 +729,8 @@ def _driven_back(axis: Axis, m: _Model, lay: _Layout, f_ext):
     mask = (r0 < -1e-9 * (np.abs(f_back) + p0 * a_d + 1.0)) & np.isfinite(r_hi)
     if not mask.any():
         return mask, {}
-    p_line = solve_increasing(resid, p0, np.where(mask, p_hi, p0), 1e-10 * (np.abs(p_hi) + 1.0), 1e-9)
+    p_line = solve_increasing(resid, p0, np.where(mask, p_hi, p0), 1e-15 * (np.abs(p_hi) + 1.0),
+                              1e-12 * (np.abs(f_back) + 1.0))
     st = state(p_line)
     u, big_q, q_o, q_fill = st["u"], st["q"], st["q_o"], st["q_fill"]
     p_d, p_o = st["p_d"], st["p_o"]
