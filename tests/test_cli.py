@@ -29,6 +29,25 @@ def axisbook(*args, cwd):
     return proc.returncode, proc.stdout, proc.stderr
 
 
+def unwrap(text: str) -> str:
+    """Output with wrapped lines joined again (a continued line is indented further than the
+    line it continues)."""
+    out = []
+    for line in text.splitlines():
+        indent = len(line) - len(line.lstrip(" "))
+        starts_item = line.strip().split(" ", 1)[0] in ("FAIL", "CAUTION", "PASS", "note:")
+        if out and line.strip() and not starts_item and indent > len(out[-1]) - len(out[-1].lstrip(" ")):
+            out[-1] += " " + line.strip()
+        else:
+            out.append(line)
+    return "\n".join(out)
+
+
+def flat(text: str) -> str:
+    """Text with the command line's wrapping undone (runs of white space as one space)."""
+    return " ".join(text.split())
+
+
 def no_traceback(err: str):
     assert "Traceback" not in err, err
 
@@ -47,8 +66,8 @@ def test_evaluate_demo_writes_records_and_fails_on_the_tip(demo):
     # demo scenario: the tip's rod side with the meter-out valve closed is above the
     # cylinder (210 bar) and hose (250 bar) ratings, so the design does not pass
     assert code == 1, out + err
-    assert out.startswith(CAUTION)
-    tip = out[out.index("Axis tip:"):]
+    assert flat(out).startswith(CAUTION)
+    tip = unwrap(out[out.index("Axis tip:"):])
     # the failing line is worded as the breach: value and limit with their unit, the source,
     # and every study that found it (the axis check and the rod-pressure study, once)
     line = next(ln for ln in tip.splitlines() if "P-ROD-RATING" in ln)
@@ -78,7 +97,7 @@ def test_evaluate_lift_alone_on_the_design_checks_passes(tmp_path):
                               "counterbalance", "--out", tmp_path / "o", "--markdown", cwd=tmp_path)
     no_traceback(err)
     assert code == 0, out + err
-    assert out.startswith(CAUTION)
+    assert flat(out).startswith(CAUTION)
     assert "Axis lift: CAUTION: 0 fail" in out and "Axis tip" not in out
     assert sorted(p.name for p in (tmp_path / "o").iterdir()) == [
         "bin-tipper-lift.html", "bin-tipper-lift.json", "bin-tipper-lift.md"]
@@ -221,7 +240,7 @@ def test_recheck_clean_and_perturbed(demo, tmp_path):
     code, out, err = axisbook("recheck", "perturbed.json", cwd=tmp_path)
     no_traceback(err)
     assert code == 1, out + err
-    line = next(ln for ln in out.splitlines() if "p_rod_closed" in ln)
+    line = next(ln for ln in unwrap(out).splitlines() if "p_rod_closed" in ln)
     # stored 1.05 x, re-run x: relative change 1/1.05 - 1 = -4.76 %
     assert line.startswith("[axis-check] result p_rod_closed (Highest rod pressure, flow valve closed)")
     assert "(-4.76 %)" in line and "bar" in line

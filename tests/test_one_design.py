@@ -54,8 +54,21 @@ def _design(tmp_path: Path, name: str) -> Path:
     return path
 
 
+def unwrap(text: str) -> str:
+    """The command line's output with wrapped verdict lines joined again (a continued line is
+    indented under the text, 11 spaces)."""
+    out = []
+    for line in text.splitlines():
+        if out and line.startswith(" " * 11) and line.strip():
+            out[-1] += " " + line.strip()
+        else:
+            out.append(line)
+    return "\n".join(out)
+
+
 def _cli_items(stdout: str, axis: str) -> set:
     """(level, rule ids) of every verdict line the command line printed for ``axis``."""
+    stdout = unwrap(stdout)
     block = stdout[stdout.index(f"Axis {axis}:"):]
     block = block.split("\n\n", 1)[0]
     out = set()
@@ -95,6 +108,8 @@ def test_panel_review_copy_and_command_line_report_the_same_findings(tmp_path, m
                           encoding="utf-8", timeout=180)
     assert proc.returncode in (0, 1), proc.stderr
     cli = _cli_items(proc.stdout, axis)
+    width = max(len(line) for line in proc.stdout.splitlines() if str(tmp_path) not in line)
+    assert width <= 80, f"output not wrapped to 80 columns ({width})"
     record = load(tmp_path / name / "out" / f"bin-tipper-{axis}.json")
     assert _items(record_verdict(record)) == cli
     assert cli, "every variant of the demo has at least a caution (demo scenario)"

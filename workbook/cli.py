@@ -201,25 +201,87 @@ def axis_summary(record, path: Path) -> list[str]:
     return lines
 
 
+def _width() -> int:
+    """The terminal's width when printing to one, else 80 columns (a file, a pipe, a CI log)."""
+    import shutil
+
+    try:
+        if sys.stdout.isatty():
+            return max(40, shutil.get_terminal_size((80, 24)).columns)
+    except (AttributeError, ValueError, OSError):
+        pass
+    return 80
+
+
+def wrap_lines(text: str, width: int | None = None) -> str:
+    """``text`` with every line wrapped to ``width``; a continued line is indented under the
+    start of its text (after a level word such as ``FAIL``), so the verdict reads as a list.
+
+    >>> print(wrap_lines("  FAIL     Rod chamber pressure reaches 272.7 bar, above the 210 bar limit", 40))
+      FAIL     Rod chamber pressure reaches
+               272.7 bar, above the 210 bar
+               limit
+    """
+    width = width or _width()
+    out = []
+    for line in text.split("\n"):
+        if len(line) <= width:
+            out.append(line)
+            continue
+        lead = len(line) - len(line.lstrip(" "))
+        body = line[lead:]
+        head = body.split(" ", 1)[0]
+        hang = lead + (9 if head in ("FAIL", "CAUTION", "PASS", "NOT") else 2)
+        out.append(textwrap.fill(line, width, subsequent_indent=" " * min(hang, width // 2),
+                                 break_long_words=False, break_on_hyphens=False))
+    return "\n".join(out)
+
+
+def machine_summary(record, outcome, path: Path) -> list[str]:
+    """Summary lines of the machine cycle: its verdict, the oil temperature and cooler, and
+    the alternatives compared (:mod:`workbook.studies.machine_cycle`)."""
+    from .record import record_verdict
+    from .studies.machine_cycle import alternatives_text, best_alternative
+
+    v = record_verdict(record)
+    r = outcome.results
+    lines = [f"Machine cycle: {v.headline()} -> {path}"]
+    lines += ["  " + item.to_line() for item in v.items]
+    lines.append(f"  oil {r['oil_temperature']['value']:.4g} degC steady (tank alone "
+                 f"{r['oil_temperature_tank']['value']:.4g} degC); cooler needed {r['cooler_needed']['value']:.3g} kW "
+                 f"or a tank of about {r['tank_needed']['value']:.4g} L; mean heat {r['mean_heat']['value']:.3g} kW, "
+                 f"RMS shaft {r['rms_power']['value']:.3g} kW, peak {r['peak_power']['value']:.3g} kW")
+    lines += ["  " + line for line in alternatives_text(outcome.alternatives)]
+    best = best_alternative(outcome.alternatives)
+    if best is not None:
+        lines.append(f"  helps most: {best['key']} (mean heat {best['heat_kw']:.3g} kW, oil {best['oil_c']:.4g} degC)")
+    return lines
+
+
 # ---------------------------------------------------------------------------- commands
 def _cmd_evaluate(args) -> int:
     from .design import load_design
     from .record import export_html, export_markdown, save
     from .record.store import folder_lock
-    from .review import DEFAULT_STUDIES, evaluate_design
+    from .review import DEFAULT_STUDIES, evaluate_design, evaluate_machine
 
     from .errors import InputError
     from .studies import KINDS
+    from .studies.machine_cycle import KIND as MACHINE_KIND
 
     design = load_design(args.design)
     kinds = tuple(dict.fromkeys(args.studies)) if args.studies else DEFAULT_STUDIES
     for kind in kinds:
-        if kind not in KINDS:
-            raise InputError("--study", repr(kind), "one of " + ", ".join(DEFAULT_STUDIES))
+        if kind not in KINDS and kind != MACHINE_KIND:
+            raise InputError("--study", repr(kind), "one of " + ", ".join((*DEFAULT_STUDIES, MACHINE_KIND)))
     for key in args.axes or ():
         if key not in design.axes:
             raise InputError("--axis", repr(key), f"one of the axes of {design.source}: " + ", ".join(design.axes))
-    evaluated = evaluate_design(design, studies=kinds, axes=args.axes)
+    # the machine cycle runs when the design has one and --study does not leave it out
+    with_machine = design.cycle is not None and (not args.studies or MACHINE_KIND in kinds)
+    kinds = tuple(k for k in kinds if k != MACHINE_KIND)
+    evaluated = evaluate_design(design, studies=kinds, axes=args.axes) if kinds or not with_machine else {}
+    machine = evaluate_machine(design) if with_machine else None
     out = Path(args.out)
     out.mkdir(parents=True, exist_ok=True)
     stem = Path(args.design).stem
@@ -235,19 +297,31 @@ def _cmd_evaluate(args) -> int:
             if args.markdown:
                 export_markdown(record, _inside(out, path.with_suffix(".md").name))
             written_sets[axis_key] = path
+        if machine is not None:  # "<design>.machine.json": an axis key holds no dot, so it never collides
+            path = _inside(out, f"{stem}.machine.json")
+            save(machine[0], path)
+            export_html(machine[0], _inside(out, path.with_suffix(".html").name))
+            if args.markdown:
+                export_markdown(machine[0], _inside(out, path.with_suffix(".md").name))
+            written_sets[None] = path
     for axis_key, (record, _outcomes) in evaluated.items():
         path = written_sets[axis_key]
         lines += axis_summary(record, path)
         lines.append("")
         if any(f["level"] == "fail" for f in record.findings()):
             failing.append(axis_key)
+    if machine is not None:
+        lines += machine_summary(*machine, written_sets[None])
+        lines.append("")
+        if any(f["level"] == "fail" for f in machine[0].findings()):
+            failing.append("machine")
     written = "HTML" + (" and Markdown" if args.markdown else "")
-    lines.append(f"Wrote {len(evaluated)} record(s) with {written} review copies to {out}.")
+    lines.append(f"Wrote {len(evaluated) + (machine is not None)} record(s) with {written} review copies to {out}.")
     if failing:
         lines.append(f"Result: FAIL on axis {', '.join(failing)} (exit code 1).")
     else:
         lines.append("Result: no failing finding (exit code 0). Cautions still need a look.")
-    print("\n".join(lines))
+    print(wrap_lines("\n".join(lines)))
     return EXIT_CHECK if failing else EXIT_OK
 
 
@@ -290,7 +364,7 @@ def _cmd_compare(args) -> int:
                              "compare them anyway)")
     d = diff(old, new, rtol=args.rtol)
     print(f"Compare {args.old} -> {args.new}")
-    print(d.to_text())
+    print(wrap_lines(d.to_text()))
     return EXIT_OK if d.is_empty else EXIT_CHECK
 
 
@@ -300,7 +374,7 @@ def _cmd_recheck(args) -> int:
 
     report = recheck(load(args.record), rtol=args.rtol, atol=args.atol)
     print(f"Record {args.record}")
-    print(report.to_text())
+    print(wrap_lines(report.to_text()))
     return EXIT_OK if report.ok else EXIT_CHECK
 
 
@@ -383,4 +457,4 @@ def _quiet_stdout() -> None:
         pass
 
 
-__all__ = ["main", "build_parser", "finding_line", "axis_summary", "EXIT_OK", "EXIT_CHECK", "EXIT_INPUT"]
+__all__ = ["main", "build_parser", "finding_line", "axis_summary", "machine_summary", "wrap_lines", "EXIT_OK", "EXIT_CHECK", "EXIT_INPUT"]

@@ -138,8 +138,9 @@ def breach_text(f: Mapping) -> str:
 
 
 def worst_case(f: Mapping) -> str:
-    """Where the finding is worst, from its detail ("" when it says nothing of a case)."""
-    return str(f.get("detail") or "").strip()
+    """Where the finding is worst, from its detail ("" when it says nothing of a case), with
+    units as people write them (°C, not degC)."""
+    return pretty_unit(str(f.get("detail") or "").strip())
 
 
 @dataclass(frozen=True)
@@ -173,11 +174,13 @@ class VerdictItem:
 def margin_text(m) -> str:
     """One margin format everywhere: signed percent, at most three significant digits.
 
-    >>> margin_text(-0.2843), margin_text(0.0476), margin_text(None)
-    ('-28.4 %', '+4.76 %', '–')
+    >>> margin_text(-0.2843), margin_text(0.0476), margin_text(None), margin_text(-78.2)
+    ('-28.4 %', '+4.76 %', '–', '-7820 %')
     """
     if m is None:
         return "–"
+    if abs(m) >= 10:  # a margin on a limit near zero: whole percent, never an exponent
+        return f"{m * 100:+.0f} %"
     return f"{m * 100:+.3g} %"
 
 
