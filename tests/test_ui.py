@@ -184,3 +184,33 @@ def test_recording_needs_a_record_path():
     panel = StudyPanel(studies.module("restrictor-sizing"), values)
     panel.record_button.click()
     assert "record file" in panel.record_status.value
+
+
+def test_a_candidate_that_cannot_be_sized_never_blocks_the_main_answer(workdir):
+    """10 gpm through the restrictor at 20 bar: the 4 mm needle seat cannot pass it (demo
+    scenario), so the needle is "not possible here" with the reason, and the orifice and the
+    throttle are sized as usual; nothing is refused and no folded field is blamed."""
+    panel = open_study("restrictor-sizing", workdir / "designs" / "bin-tipper.toml", axis="lift")
+    assert panel.set("study.target_flow", "10 gpm")
+    assert not panel.stale and panel.error is None
+    res = panel.outcome.results
+    assert "orifice_drill" in res and "throttle_bore" in res and "needle_lift" not in res
+    needle = [f for f in panel.outcome.findings if f["rule_id"] == "SZ-NEEDLE"]
+    assert needle and needle[0]["statement"] == "Needle throttle: not possible here"
+    assert "cannot pass 37.85 L/min" in needle[0]["detail"]       # 10 US gal/min = 37.85 L/min (NIST SP 811)
+    assert "not possible here" in panel.findings_box.widget.value
+    assert panel.folds.selected_index is None
+    assert list(panel.outcome.figures["flow_vs_drop"]["series"]) == ["orifice (drilled)", "long throttle"]
+
+
+def test_a_refusal_caused_by_a_folded_field_opens_its_section(workdir):
+    panel = open_study("rod-pressure", workdir / "designs" / "bin-tipper.toml", axis="tip")
+    assert panel.folds.selected_index is None
+    # the sweep range is folded away under the study's settings; a highest sweep load below
+    # the lowest one is refused by the study (a cross-field check), not by the entry itself
+    fold = panel._fold_of[("study", "load_max")]
+    assert panel.set("study.load_min", "5 kN")
+    assert not panel.set("study.load_max", "1 kN")
+    assert panel.error is not None and panel.error.field == "study.load_max"
+    assert panel.folds.selected_index == fold
+    assert "wb-invalid" in panel.controls[("study", "load_max")].widget._dom_classes

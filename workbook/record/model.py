@@ -77,7 +77,7 @@ FINDING_KEYS = ("rule_id", "statement", "quantity", "value", "limit", "unit", "m
 _FINDING_REQUIRED = ("rule_id", "statement", "level", "source")
 _FINDING_NUMBERS = ("value", "limit", "margin")
 _PLAIN = ("text", "choice", "flag")  # kinds stored without a unit
-_FIGURE_KEYS = ("title", "x_label", "y_label", "x", "series", "limits")
+_FIGURE_KEYS = ("title", "x_label", "y_label", "x", "series", "limits", "bands")
 
 
 # ---------------------------------------------------------------------------- checks
@@ -260,7 +260,15 @@ def _figure(name: str, fig: Any, where: str) -> dict:
     for label, v in limits_in.items():
         _text(label, f"{where}.limits", "text labels")
         limits[label] = _number(v, f"{where}.limits.{label}")
-    return {
+    bands_in = _mapping(fig.get("bands", {}), f"{where}.bands", "a mapping label -> [x from, x to]")
+    bands = {}
+    for label, span in bands_in.items():
+        _text(label, f"{where}.bands", "text labels")
+        pair = _numbers(span, f"{where}.bands.{label}")
+        if len(pair) != 2 or pair[0] > pair[1]:
+            raise InputError(f"{where}.bands.{label}", repr(pair), "[x from, x to] with from <= to")
+        bands[label] = pair
+    out = {
         "title": _text(fig.get("title", name), f"{where}.title"),
         "x_label": _text(fig.get("x_label", ""), f"{where}.x_label"),
         "y_label": _text(fig.get("y_label", ""), f"{where}.y_label"),
@@ -268,6 +276,9 @@ def _figure(name: str, fig: Any, where: str) -> dict:
         "series": series,
         "limits": limits,
     }
+    if bands:
+        out["bands"] = bands   # shaded x ranges (a regime band); only stored when there is one
+    return out
 
 
 # ---------------------------------------------------------------------------- inputs

@@ -164,6 +164,13 @@ def line_chart(figure: dict) -> str:
                  f'font-size="12">{_esc(figure.get("x_label", ""))}</text>')
     parts.append(f'<text transform="translate(16,{TOP + plot_h / 2:.1f}) rotate(-90)" text-anchor="middle" '
                  f'font-size="12">{_esc(figure.get("y_label", ""))}</text>')
+    # shaded x ranges (a regime band), under the curves, labelled at their top left
+    for label, (b_lo, b_hi) in figure.get("bands", {}).items():
+        bx0, bx1 = sorted((max(LEFT, min(LEFT + plot_w, px(b_lo))), max(LEFT, min(LEFT + plot_w, px(b_hi)))))
+        parts.append(f'<rect class="band" x="{bx0:.1f}" y="{TOP}" width="{max(bx1 - bx0, 1.0):.1f}" '
+                     f'height="{plot_h}" fill="#999" fill-opacity="0.22"/>')
+        parts.append(f'<text x="{bx0 + 3:.1f}" y="{TOP + plot_h - 6}" font-size="10" font-style="italic" '
+                     f'fill="#333">shaded: {_esc(label)}</text>')
     # limits: dashed, labelled inside the plot at the right end, just above the line (on a
     # white halo so a curve under the label does not hide it); never cut off at the edge
     for label, value in limits.items():

@@ -162,6 +162,11 @@ def figures_for_record(figures: Mapping) -> dict:
                     "series": {name: as_list(np.asarray(ys, dtype=float).ravel()[idx])
                                for name, ys in fig["series"].items()},
                     "limits": {name: tidy(v) for name, v in fig.get("limits", {}).items()}}
+        if fig.get("bands"):
+            out[key]["bands"] = {name: [tidy(a, CURVE_DIGITS), tidy(b, CURVE_DIGITS)]
+                                 for name, (a, b) in fig["bands"].items()}
+        else:
+            out[key].pop("bands", None)
     return out
 
 

@@ -78,22 +78,27 @@ def run(values) -> Outcome:
     orifice = rs.SharpOrifice(d_drill, cd=cd)
     throttle_size = rs.throttle_diameter(q, dp, rho, mu, fv["length"])
     throttle = rs.LongThrottle(float(throttle_size.diameter), fv["length"])
+    # the needle is a candidate: when its seat or thread cannot pass this duty it is "not
+    # possible here", with the reason, and the orifice and the throttle still answer
+    needle_problem = ""
+    lift = None
     try:
         lift = rs.needle_lift(q, dp, rho, mu, fv["seat_diameter"], fv["half_angle"], cd=cd)
     except InputError as exc:
-        raise InputError("flow_valve.seat_diameter", f"{fv['seat_diameter'] * 1e3:g} mm",
-                         f"a needle seat large enough for {q * 6e4:g} L/min at {dp / 1e5:g} bar "
-                         f"({exc.allowed})") from None
-    needle = rs.NeedleThrottle(fv["seat_diameter"], fv["half_angle"], float(lift.lift), cd=cd)
-    turns = float(lift.lift) / fv["pitch"]
+        needle_problem = (f"the needle seat of {fv['seat_diameter'] * 1e3:g} mm (Flow valve, Needle seat "
+                          f"diameter) cannot pass {q * 6e4:.4g} L/min at {dp / 1e5:.4g} bar ({exc.allowed})")
     turns_field = inputs.FLOW_VALVE["turns"]
-    if turns > turns_field.high:
-        raise InputError("flow_valve.pitch", f"{fv['pitch'] * 1e3:g} mm",
-                         f"a thread pitch that opens the needle within {turns_field.high:g} turns "
-                         f"(this duty needs {turns:.4g} turns)")
-    models = dict(zip(CANDIDATES, (orifice, throttle, needle)))
-    sized_regime = {name: str(np.asarray(state.regime).ravel()[0]) for name, state in
-                    zip(CANDIDATES, (drilled.state, throttle_size.state, lift.state))}
+    if lift is not None:
+        turns = float(lift.lift) / fv["pitch"]
+        if turns > turns_field.high:
+            needle_problem = (f"with a thread pitch of {fv['pitch'] * 1e3:g} mm the needle would need "
+                              f"{turns:.4g} turns, more than {turns_field.high:g}")
+    candidates = [("orifice (drilled)", orifice, drilled.state), ("long throttle", throttle, throttle_size.state)]
+    if not needle_problem:
+        needle = rs.NeedleThrottle(fv["seat_diameter"], fv["half_angle"], float(lift.lift), cd=cd)
+        candidates.append(("needle throttle", needle, lift.state))
+    models = {name: m for name, m, _s in candidates}
+    sized_regime = {name: str(np.asarray(state.regime).ravel()[0]) for name, _m, state in candidates}
     short_throttle = fv["length"] < 10.0 * float(throttle_size.diameter)
 
     # flow against temperature at the available drop
@@ -112,10 +117,18 @@ def run(values) -> Outcome:
         "orifice_reynolds": ratio_result("Orifice Reynolds number", float(drilled.state.reynolds)),
         "throttle_bore": result("Throttle bore", float(throttle_size.diameter), "length", "mm"),
         "throttle_reynolds": ratio_result("Throttle Reynolds number", float(throttle_size.state.reynolds)),
-        "needle_lift": result("Needle lift", float(lift.lift), "length", "mm"),
-        "needle_turns": {"value": turns, "unit": "turns", "label": "Needle opening"},
     }
+    if not needle_problem:
+        res["needle_lift"] = result("Needle lift", float(lift.lift), "length", "mm")
+        res["needle_turns"] = {"value": turns, "unit": "turns", "label": "Needle opening"}
     findings = []
+    if needle_problem:
+        chosen = fv["kind"] == "needle"
+        item = finding("SZ-NEEDLE", "Needle throttle: not possible here", "needle throttle for this duty", None,
+                       None, "dimensionless", "", "fail" if chosen else "caution", "needle seat geometry", None,
+                       detail=needle_problem + "; the orifice and the long throttle are sized as usual")
+        findings.append(item if chosen else as_alternative(item, "the needle throttle"))
+
     # drill rounding against the speed tolerance
     flow_error = abs(float(drilled.flow_ratio) - 1.0)
     level, margin = grade(flow_error, tol, 0.25 * tol)
@@ -152,20 +165,44 @@ def run(values) -> Outcome:
             "common practice", margin,
             detail=f"regime at the available drop and the sizing temperature: {sized_regime[name]}")))
 
+    # a throttle sized in, or swept through, the transition band follows neither law well:
+    # its flow against temperature rises, peaks and falls, and the models disagree there
+    band_t = np.asarray(flow_t["long throttle"].regime).ravel() == rs.TRANSITIONAL
+    band_dp = np.asarray(flow_dp["long throttle"].regime).ravel() == rs.TRANSITIONAL
+    in_band = sized_regime["long throttle"] == rs.TRANSITIONAL or band_t.any()
+    if in_band:
+        re_sized = float(throttle_size.state.reynolds)
+        where = (f"oil {float(temps[band_t].min()) - 273.15:.0f} to {float(temps[band_t].max()) - 273.15:.0f} °C"
+                 if band_t.any() else "at the sizing point")
+        item = finding(
+            "SZ-THROTTLE-BAND", "The long throttle runs laminar (below the transition band, Re "
+            f"{rs.RE_LAMINAR_LIMIT:g} to {rs.RE_TURBULENT_FROM:g})", "throttle Reynolds number at the sizing point",
+            re_sized, rs.RE_LAMINAR_LIMIT, "dimensionless", "", "caution", "common practice (pipe flow transition "
+            "band Re 2300 to 4000)", (rs.RE_LAMINAR_LIMIT - re_sized) / rs.RE_LAMINAR_LIMIT,
+            detail=f"in the transition band {where}: the flow there is uncertain (neither Hagen-Poiseuille nor "
+                   "the turbulent law holds); a viscosity-sensitive throttle should be laminar: make it longer, "
+                   "or give it a lower drop")
+        findings.append(item if DESIGN_KIND.get(fv["kind"]) == "long throttle"
+                        else as_alternative(item, "the long throttle"))
+
+    def _band(x, mask):
+        return {"long throttle in the transition band": [float(x[mask].min()), float(x[mask].max())]} \
+            if mask.any() else {}
+
     figures = {
         "flow_vs_drop": {
             "title": "Flow against pressure drop at the sizing temperature",
             "x_label": "Pressure drop [bar]", "y_label": "Flow [L/min]",
             "x": curve(dps / 1e5),
             "series": {name: curve(np.asarray(f.flow) * 60000.0) for name, f in flow_dp.items()},
-            "limits": {"target flow": q * 60000.0},
+            "limits": {"target flow": q * 60000.0}, "bands": _band(dps / 1e5, band_dp),
         },
         "flow_vs_temperature": {
             "title": "Flow against oil temperature at the available drop",
             "x_label": "Oil temperature [degC]", "y_label": "Flow [L/min]",
             "x": curve(temps - 273.15),
             "series": {name: curve(np.asarray(f.flow) * 60000.0) for name, f in flow_t.items()},
-            "limits": {"target flow": q * 60000.0},
+            "limits": {"target flow": q * 60000.0}, "bands": _band(temps - 273.15, band_t),
         },
     }
     regimes = {

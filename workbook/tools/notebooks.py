@@ -28,8 +28,11 @@ STUDIES = {
         "Size a sharp orifice, a long throttle and a needle throttle for the lowering flow of the "
         "lift axis, round the orifice to a drill, and see how each candidate holds its flow as the "
         "pressure drop and the oil temperature change.",
-        "The orifice and the needle keep their flow from cold to warm oil; the long throttle, "
-        "laminar, follows the viscosity. Try a longer throttle, a smaller drop or a thinner oil.",
+        "The orifice and the needle keep their flow from cold to warm oil; the long throttle follows the "
+        "viscosity while it is laminar. Where it runs into the transition band (shaded in the figures, "
+        "Re 2300 to 4000) its flow rises, peaks and falls with temperature and is uncertain: make it longer "
+        "or give it a lower drop. A candidate that cannot be sized for the duty is marked \"not possible "
+        "here\" with the reason; the others still answer.",
         'panel.set("study.target_flow", "12 L/min")',
     ),
     "2-speed-against-load.ipynb": (

@@ -141,6 +141,9 @@ class StudyPanel:
                 groups.setdefault(section, []).append(self.controls[(section, key)].widget)
         folds = W.Accordion(children=[W.VBox(rows) for rows in groups.values()],
                             titles=tuple(inputs.section(sec).title for sec in groups))
+        # which fold holds each folded field (a refusal caused by a folded field opens it)
+        self._fold_of = {(sec, key): i for i, sec in enumerate(groups) for s2, key in fields
+                         if s2 == sec and (s2, key) not in key_fields}
         folds.selected_index = None
         folds.add_class("wb-more-inputs")
         self.folds = folds
@@ -234,6 +237,9 @@ class StudyPanel:
             if target is not None:
                 target._set_valid(False, exc.allowed, exc.given)
                 target.valid = True  # a cross-field refusal: the entry itself parsed
+                fold = self._fold_of.get((target.section, target.field.key))
+                if fold is not None:
+                    self.folds.selected_index = fold   # never blame a field the user cannot see
             self._mark_stale(f"{exc}")   # the last valid verdict stays, marked out of date
             return False
         self.error = None
@@ -349,7 +355,8 @@ class StudyPanel:
                 changed = True
             ys = {k: np.asarray(vals, dtype=float) for k, vals in fig["series"].items()}
             plot.update(np.asarray(fig["x"], dtype=float), ys,
-                        regimes=outcome.regimes.get(key), limits=fig.get("limits"), title=fig["title"])
+                        regimes=outcome.regimes.get(key), limits=fig.get("limits"), title=fig["title"],
+                        bands=fig.get("bands"))
         if changed:
             self.plot_area.children = [self.plots[k].widget for k in outcome.figures if k in self.plots]
 

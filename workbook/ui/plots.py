@@ -46,7 +46,7 @@ class LivePlot:
     def __init__(self, title: str, x_label: str, x_unit: str, y_label: str, y_unit: str,
                  series: Sequence[str], limits: Sequence[str] = (), normal_regime: str | None = None,
                  width: int = 860, height: int = 340):
-        from bokeh.models import ColumnDataSource, HoverTool, Label, Legend, Span
+        from bokeh.models import BoxAnnotation, ColumnDataSource, HoverTool, Label, Legend, Span
         from bokeh.plotting import figure
 
         self.series = tuple(series)
@@ -81,6 +81,12 @@ class LivePlot:
             fig.add_layout(label)
             self.limit_spans[name] = span
             self.limit_labels[name] = label
+        # one shaded x range (a regime band, e.g. a throttle's transition band), hidden when absent
+        self.band = BoxAnnotation(left=0, right=0, fill_color="#999999", fill_alpha=0.18, visible=False)
+        fig.add_layout(self.band)
+        self.band_label = Label(x=0, y=0, y_units="screen", text="", text_font_size="9pt", text_color="#444444",
+                                text_font_style="italic", visible=False)
+        fig.add_layout(self.band_label)
         legend = Legend(items=items, click_policy="hide", label_text_font_size="10pt",
                         title="dotted: not simply metering" if normal_regime else None,
                         title_text_font_size="9pt", title_text_font_style="italic")
@@ -113,10 +119,20 @@ class LivePlot:
 
     def update(self, x, ys: Mapping[str, np.ndarray], regimes: Mapping[str, Sequence[str]] | None = None,
                limits: Mapping[str, float] | None = None, xs: Mapping[str, np.ndarray] | None = None,
-               title: str | None = None) -> None:
-        """Replace the data of every series (and the limit lines) in place."""
+               title: str | None = None, bands: Mapping[str, Sequence[float]] | None = None) -> None:
+        """Replace the data of every series (and the limit lines and the shaded band) in place."""
         if title is not None:
             self.set_title(title)
+        band = next(iter((bands or {}).items()), None)
+        if band is None:
+            if self.band.visible:
+                self.band.visible = self.band_label.visible = False
+        else:
+            name, (lo, hi) = band
+            if (self.band.left, self.band.right, self.band_label.text) != (lo, hi, name) or not self.band.visible:
+                self.band.left, self.band.right, self.band.visible = float(lo), float(hi), True
+                self.band_label.x, self.band_label.y = float(lo), 4
+                self.band_label.text, self.band_label.visible = f"shaded: {name}", True
         x_hi = -math.inf
         x_lo = math.inf
         for name in self.series:
