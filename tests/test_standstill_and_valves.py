@@ -373,3 +373,26 @@ def test_new_inputs_reach_the_axis_and_bad_ones_name_their_field():
         with pytest.raises(InputError) as e:
             section.parse(entry)
         assert field in e.value.field and e.value.allowed
+
+
+def test_cautious_spring_chamber_takes_the_higher_lowering_pressures():
+    """Spring chamber 'cautious' (the default): of the two types the one whose lowering gives
+    this design the higher peak pressure (cap, rod, pump line, valve outlet). With nothing
+    metering downstream (meter-in lowering, outlet at the 5 bar tank port) the outlet-referenced
+    3:1 valve opens (1 + R) p_t = 4 x 5 = 20 bar higher than the vented one (force balance on
+    the poppet), so it is taken; with a meter-out valve downstream the comparison is made on
+    the solutions themselves."""
+    def peak(ax):
+        s = solve(ax, np.array(ax.loads), ax.temp_min, "retract")
+        return float(np.max(np.maximum(np.maximum(s.p1, s.p3), np.maximum(s.p_pump, s.p_mid))))
+
+    for arrangement in ("meter-in", "meter-out"):
+        v = values(flow_valve={"arrangement": arrangement}, operation={"tank_pressure": 5e5})
+        chosen = axis_from_values(v)
+        assert chosen.holding.spring_chamber in ("outlet-referenced", "vented")
+        other = "vented" if chosen.holding.spring_chamber == "outlet-referenced" else "outlet-referenced"
+        alt = axis_from_values(values(flow_valve={"arrangement": arrangement}, operation={"tank_pressure": 5e5},
+                                      holding={"spring_chamber": other}))
+        assert peak(chosen) >= peak(alt)
+        if arrangement == "meter-in":
+            assert chosen.holding.spring_chamber == "outlet-referenced"

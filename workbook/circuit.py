@@ -97,7 +97,7 @@ pump pressure 160 + 12 × 4.05/21.6 = 162.25 bar (droop set to zero for the hand
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass, field, fields
+from dataclasses import dataclass, field, fields, replace
 from typing import Any, Callable, Mapping
 
 import numpy as np
@@ -1020,7 +1020,8 @@ def _counterbalance_from_values(hold: Mapping, pilot_ratio: float) -> Counterbal
     """The counterbalance of the ``holding`` section (spring chamber and fully-open drop
     with their defaults)."""
     return CounterbalanceValve(hold["setting"], pilot_ratio, hold["gradient"], _holding_check(hold),
-                               spring_chamber=hold.get("spring_chamber") or "outlet-referenced",
+                               spring_chamber=("outlet-referenced" if hold.get("spring_chamber") in (None, "cautious")
+                                               else hold["spring_chamber"]),
                                open_gradient=hold.get("open_gradient") or CB_OPEN_GRADIENT_DEFAULT)
 
 
@@ -1188,14 +1189,37 @@ def _axis_from_values(values: Mapping[str, Mapping]) -> Axis:
                          f"({supply.relief.full_flow / _BAR:g} bar)")
     ratings = Ratings.from_values(values["ratings"]) if "ratings" in values else Ratings()
     cav = values.get("limits", {}).get("cavitation_abs", CAVITATION_ABS_DEFAULT)
-    return Axis(cylinder=cylinder, oil=oil, supply=supply, flow_valve=valve, arrangement=fv["arrangement"],
+    axis = Axis(cylinder=cylinder, oil=oil, supply=supply, flow_valve=valve, arrangement=fv["arrangement"],
                 controlled=fv["direction"], holding=holding, holding_side=hold.get("side", "cap"),
                 friction=op["friction"], tank_pressure=op["tank_pressure"], loads=tuple(design_loads(op)),
                 temp_min=op["temp_min"], temp_max=op["temp_max"], target_speed=op.get("target_speed"),
                 speed_tolerance=op.get("speed_tolerance", 0.15), mass=op.get("mass", 0.0), ratings=ratings,
                 cavitation_abs=cav, air_content=oil_v.get("air_content") or 0.0)
+    if isinstance(holding, CounterbalanceValve) and (hold.get("spring_chamber") or "cautious") == "cautious":
+        axis = replace(axis, holding=cautious_counterbalance(axis))
+    return axis
 
 
-__all__ = ["Axis", "Ratings", "Solution", "solve", "natural_frequency", "chamber_modulus", "axis_from_values", "design_loads", "G_STANDARD", "solve_increasing", "REGIMES",
+def cautious_counterbalance(axis: Axis) -> CounterbalanceValve:
+    """Of the two spring-chamber types, the one that gives this design the higher pressures
+    while lowering (cap, rod, pump line or the valve's outlet; load cases, cold oil, flow
+    valve open): the more cautious for the ratings when the data sheet does not say.
+
+    Where nothing meters downstream of the valve the two differ by about (1 + R) times the
+    tank back pressure and the outlet-referenced one is taken; with a metering valve downstream
+    the difference can be large either way (force balance on the poppet, see
+    :class:`~workbook.valve.CounterbalanceValve`)."""
+    lower = "retract" if axis.holding_side == "cap" else "extend"
+    loads = np.asarray(axis.loads, dtype=float)
+    peaks = {}
+    for chamber in ("outlet-referenced", "vented"):
+        cb = replace(axis.holding, spring_chamber=chamber)
+        s = solve(replace(axis, holding=cb), loads, axis.temp_min, lower)
+        peaks[chamber] = (float(np.max(np.maximum(np.maximum(s.p1, s.p3), np.maximum(s.p_pump, s.p_mid)))), cb)
+    out, ven = peaks["outlet-referenced"], peaks["vented"]
+    return ven[1] if ven[0] > out[0] * (1 + 1e-9) else out[1]
+
+
+__all__ = ["Axis", "Ratings", "Solution", "solve", "natural_frequency", "chamber_modulus", "cautious_counterbalance", "axis_from_values", "design_loads", "G_STANDARD", "solve_increasing", "REGIMES",
            "ARRANGEMENTS", "DIRECTIONS", "METERING", "STARVED", "PUMP_LIMITED", "RELIEF", "STALLED", "HELD",
            "CLOSED", "RUNAWAY", "CAVITATING", "SINKING", "DRIVEN_BACK", "UNCONTROLLED", "CAVITATION_ABS_DEFAULT"]

@@ -172,12 +172,12 @@ HOLDING = Section(
               help="counterbalance pilot area over seat area (R:1)", source="demo scenario"),
         Field("gradient", "Opening gradient", "pressure_per_flow", "bar/(L/min)", 0.5, low=0, low_open=True,
               high=100, help="pressure rise above the opening point per flow", source="from memory"),
-        Field("spring_chamber", "Counterbalance spring chamber", "choice", default="outlet-referenced",
-              choices=("outlet-referenced", "vented"),
-              help="drained to the valve outlet (outlet pressure adds (1 + R) times to the opening pressure) or "
-                   "vented to air (outlet pressure has no effect)",
-              source="common practice (the usual cartridge drains to its outlet; the more cautious for "
-                     "lowering pressures and heat)"),
+        Field("spring_chamber", "Counterbalance spring chamber", "choice", default="cautious",
+              choices=("cautious", "outlet-referenced", "vented"),
+              help="drained to the valve outlet (outlet pressure adds (1 + R) times to the opening pressure), "
+                   "vented to air (outlet pressure has no effect), or cautious: whichever gives this design the "
+                   "higher pressures while lowering",
+              source="common practice (take the type from the data sheet; without it the more cautious one)"),
         Field("open_gradient", "Drop fully open", "pressure_per_flow", "bar/(L/min)", 0.2, low=0, low_open=True,
               high=100, help="drop of the counterbalance held fully open by its pilot, per flow",
               source="from memory (a small cartridge piloted fully open drops 3 to 6 bar at 20 L/min)"),

@@ -173,7 +173,10 @@ def run(values) -> Outcome:
             "CB-OUTLET", "No metering valve downstream raises the counterbalance's outlet pressure",
             "highest counterbalance outlet pressure while lowering", p_out, base.tank_pressure, "pressure", "bar",
             "caution", "force balance on the poppet; valve types common practice", None,
-            detail=f"the design's valve is {chosen_type}; lowering pressures at the load cases, cold oil: {words}. "
+            detail=f"the design's valve is {chosen_type}"
+                   + (" (spring chamber 'cautious': the type with the higher lowering pressures for this design)"
+                      if hold.get("spring_chamber") in (None, "cautious") else "")
+                   + f"; lowering pressures at the load cases, cold oil: {words}. "
                    f"An outlet-referenced valve adds about (1 + R) times its outlet pressure to its opening "
                    f"pressure, a vented one ignores it; confirm the type on the data sheet (the {other} figures "
                    "show the other case), or meter in instead"))
