@@ -50,7 +50,7 @@ def test_control_takes_units_and_refuses_with_a_message():
 ])
 def test_each_study_updates_keeps_last_result_on_bad_entry_and_records(workdir, kind, axis, field, good):
     panel = open_study(kind, workdir / "designs" / "bin-tipper.toml", axis=axis)
-    assert CAUTION in panel.widget.children[0].value
+    assert CAUTION in panel.widget.children[-1].value  # beside the record actions, once
     before = json.dumps(panel.outcome.results, sort_keys=True)
     plot = next(iter(panel.plots.values()))
     source = next(iter(plot.sources.values()))
@@ -214,3 +214,51 @@ def test_a_refusal_caused_by_a_folded_field_opens_its_section(workdir):
     assert panel.error is not None and panel.error.field == "study.load_max"
     assert panel.folds.selected_index == fold
     assert "wb-invalid" in panel.controls[("study", "load_max")].widget._dom_classes
+
+
+#: refused entries: (study, field, typed text, what the message must say is allowed)
+REFUSED = [
+    ("rod-pressure", "cylinder.bore", "-63 mm", "greater than 0"),
+    ("rod-pressure", "cylinder.bore", "160 bar", "a length"),
+    ("rod-pressure", "cylinder.rod", "abc", ""),
+    ("rod-pressure", "cylinder.rod", "70 mm", "smaller than the bore"),
+    ("rod-pressure", "cylinder.rated_pressure", "5 kN", "a pressure"),
+    ("rod-pressure", "supply.relief_full_flow", "12 mm", "a pressure"),
+    ("rod-pressure", "operation.loads", "2 kN, 3 bar", "force"),
+    ("rod-pressure", "operation.temp_min", "20 kg", "temperature"),
+    ("rod-pressure", "ratings.hose_rating", "-1 bar", ""),
+    ("rod-pressure", "flow_valve.setting", "7 mm", "a flow"),
+    ("rod-pressure", "study.points", "3", ""),
+    ("counterbalance", "holding.setting", "-5 mm", "a pressure"),
+    ("counterbalance", "holding.pilot_ratio", "3 deg", ""),
+    ("counterbalance", "study.pilot_ratios", "x", ""),
+    ("speed-vs-load", "operation.target_speed", "3 kg", "velocity"),
+    ("speed-vs-load", "oil.nu40", "46 bar", "viscosity"),
+    ("restrictor-sizing", "study.target_flow", "-3 L/min", ""),
+]
+
+
+@pytest.mark.parametrize("kind, name, typed, allowed", REFUSED, ids=[f"{k}:{n}={t}" for k, n, t, _ in REFUSED])
+def test_refused_entries_name_the_field_as_the_user_sees_it_and_echo_what_was_typed(workdir, kind, name, typed,
+                                                                                   allowed):
+    axis = "tip" if kind == "rod-pressure" else "lift"
+    panel = open_study(kind, workdir / "designs" / "bin-tipper.toml", axis=axis)
+    section, key = name.split(".")
+    field = inputs.section(section)[key]
+    assert not panel.set(name, typed)
+    assert panel.stale
+    ctl = panel.controls[(section, key)]
+    # the message beside the field echoes the typed text and says what is allowed
+    assert "not accepted" in ctl.message.value and html_escape(typed) in ctl.message.value
+    assert allowed in ctl.message.value
+    # the status line names the field by its label and section, never by an internal key
+    status = panel.status.value
+    assert html_escape(field.label) in status and html_escape(inputs.section(section).title) in status
+    assert name not in status
+    assert html_escape(repr(typed)) in status
+
+
+def html_escape(text: str) -> str:
+    import html
+
+    return html.escape(text)

@@ -71,6 +71,11 @@ DESIGN = "designs/bin-tipper.toml"
 IGNORE_TAG = "nbval-ignore-output"
 
 
+def _sentence(text: str) -> str:
+    """``text`` starting with a capital letter."""
+    return text[:1].upper() + text[1:]
+
+
 def _cells(kind, axis, title, purpose, hint, try_line):
     import nbformat.v4 as nbf
 
@@ -81,7 +86,7 @@ def _cells(kind, axis, title, purpose, hint, try_line):
     panel.metadata["tags"] = [IGNORE_TAG]
     return [
         nbf.new_markdown_cell(
-            f"# {title}\n\n{purpose}\n\n> **Caution.** {CAUTION.removeprefix('Caution: ')}\n\n"
+            f"# {title}\n\n{purpose}\n\n> **Caution.** {_sentence(CAUTION.removeprefix('Caution: '))}\n\n"
             f"Design: `{DESIGN}`, axis `{axis}` (an invented bin tipper). The panel opens on the design "
             "file's values and shows, at the top, the verdict of the whole axis (every study of the axis, "
             "the same findings as `axisbook evaluate`). Type values with units (\"80 mm\", \"3.15 in\", "

@@ -20,6 +20,7 @@ import ipywidgets as W
 
 from ..errors import InputError
 from ..fields import Field
+from ..record.verdict import pretty_unit
 
 LABEL_WIDTH = "15em"
 
@@ -51,6 +52,7 @@ class QuantityControl:
         self._callbacks: list[Callable[["QuantityControl"], None]] = []
         self._syncing = False
         self.valid = True
+        self.error_allowed = ""
         label = W.HTML(f"<b>{html.escape(field.label)}</b>",
                        layout=W.Layout(width=LABEL_WIDTH, flex="0 0 auto"), tooltip=field.help)
         self.message = W.HTML("", layout=W.Layout(flex="1 1 auto", min_width="10em"))
@@ -75,8 +77,9 @@ class QuantityControl:
                                             layout=W.Layout(width="12em", flex="0 0 auto"))
                 self.slider.observe(self._on_slider, names="value")
         self.entry.add_class("wb-entry")
-        unit = W.HTML(f"<span style='color:#555'>{html.escape(field.unit)}</span>",
-                      layout=W.Layout(width="7em", flex="0 0 auto"))
+        unit = W.HTML(self._unit_html(), layout=W.Layout(width="9em", flex="0 0 auto"))
+        unit.add_class("wb-unit")
+        self.unit_label = unit
         parts = [label, self.entry]
         # every row keeps the slider's column, so units and help line up
         parts.append(self.slider if self.slider is not None
@@ -106,6 +109,7 @@ class QuantityControl:
                 self.slider.value = self._slider_value(value)
         finally:
             self._syncing = False
+        self.unit_label.value = self._unit_html()
         self._set_valid(True)
         if notify:
             self._notify()
@@ -133,10 +137,12 @@ class QuantityControl:
         try:
             value = self.field.parse(text)
         except InputError as exc:
+            self.error_allowed = exc.allowed
             self._set_valid(False, exc.allowed, text)
         else:
             self._value = value
             self._set_valid(True)
+            self.unit_label.value = self._unit_html(text)
             if self.slider is not None:
                 self._syncing = True
                 try:
@@ -186,9 +192,20 @@ class QuantityControl:
         self.message.value = f"<span style='color:#666;font-size:90%'>{html.escape(self.field.help)}</span>"
 
     def _text_of(self, value) -> str:
+        """The value as the entry shows it: four significant digits, units as people write
+        them ("16 cm³", "40 °C"); the control keeps the full value."""
         if value is None:
             return ""
-        return self.field.as_text(value, digits=6)
+        return pretty_unit(self.field.as_text(value, digits=4))
+
+    def _unit_html(self, typed: str = "") -> str:
+        """The unit beside the entry; when the entry holds a value in another unit ("3 in"),
+        what it is in the field's unit ("= 76.2 mm"), so the two never contradict."""
+        unit = pretty_unit(self.field.unit)
+        shown = self._text_of(self._value) if typed else ""
+        if typed and shown and pretty_unit(typed.strip()) != shown and any(ch.isalpha() or ch in "°³²" for ch in typed):
+            return f"<span style='color:#555'>= {html.escape(shown)}</span>"
+        return f"<span style='color:#555'>{html.escape(unit)}</span>"
 
     def _slider_value(self, value) -> float:
         lo, hi, _ = self.field.slider

@@ -186,12 +186,14 @@ class StudyPanel:
         self.notice_box.add_class("wb-record-notice-box")
         self.verdict_box = HtmlBox("wb-verdict-box")
         self.changes_box = HtmlBox("wb-changes-box")
+        # the notebook's first cell states the caution; the panel repeats it beside the record
+        # actions (once on the first screen, and with whatever the panel is saved or shown in)
         self.widget = W.VBox([
-            caution, self.notice_box, self.verdict_box.widget, self.form, self.status,
+            self.notice_box, self.verdict_box.widget, self.form, self.status,
             self.results_box.widget, self.findings_box.widget,
             self.plot_note, self.plot_area, self.changes_box.widget,
             W.HBox([self.note, W.VBox([self.record_button, self.export_button])]),
-            self.record_status,
+            self.record_status, caution,
         ])
         self.widget.add_class("wb-panel")
         self.widget.add_class(f"wb-study-{css_name(self.study.KIND)}")
@@ -209,7 +211,8 @@ class StudyPanel:
     # ----------------------------------------------------------------- compute
     def _on_control(self, ctl: QuantityControl) -> None:
         if not ctl.valid:
-            self._mark_stale(f"{ctl.section}.{ctl.field.key} was not accepted; showing the last valid results.")
+            self._mark_stale(f"{_where(ctl)}: {ctl.entry.value!r} was not accepted ({ctl.error_allowed}); "
+                             "showing the last valid results.")
             return
         self.values[ctl.section][ctl.field.key] = ctl.value
         self.recompute()
@@ -219,7 +222,7 @@ class StudyPanel:
         study succeeded (the verdict then covers the whole axis at these inputs)."""
         bad = [c for c in self.controls.values() if not c.valid]
         if bad:
-            self._mark_stale(f"{bad[0].section}.{bad[0].field.key} was not accepted.")
+            self._mark_stale(f"{_where(bad[0])}: {bad[0].entry.value!r} was not accepted.")
             return False
         kind = self.study.KIND
         ev = evaluate(self.values, self.kinds)
@@ -234,13 +237,18 @@ class StudyPanel:
         except InputError as exc:
             self.error = exc
             target = self._control_named(exc.field)
+            why = str(exc)
             if target is not None:
-                target._set_valid(False, exc.allowed, exc.given)
+                # name the field as the user sees it and echo what was typed, not a converted value
+                typed = target.entry.value if isinstance(target.entry, W.Text) else str(exc.given)
+                why = f"{_where(target)}: {typed!r} is refused by the {self.study.TITLE.lower()} study; allowed: " \
+                      f"{exc.allowed}"
+                target._set_valid(False, exc.allowed, typed)
                 target.valid = True  # a cross-field refusal: the entry itself parsed
                 fold = self._fold_of.get((target.section, target.field.key))
                 if fold is not None:
                     self.folds.selected_index = fold   # never blame a field the user cannot see
-            self._mark_stale(f"{exc}")   # the last valid verdict stays, marked out of date
+            self._mark_stale(why)   # the last valid verdict stays, marked out of date
             return False
         self.error = None
         self.outcome = outcome
@@ -496,6 +504,11 @@ class StudyPanel:
         if self.stale:
             text += "\n\n(out of date: an entry was not accepted)"
         return text
+
+
+def _where(ctl) -> str:
+    """A field as the user sees it: its label and the section it sits in."""
+    return f"{ctl.field.label} ({inputs.section(ctl.section).title})"
 
 
 def _text(f, value) -> str:

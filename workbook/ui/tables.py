@@ -49,20 +49,38 @@ def caution_html() -> str:
             f"background:#fafafa'>{html.escape(CAUTION)}</div>")
 
 
+_CELL = "padding:2px 10px 2px 6px;vertical-align:top"
+_NUM = _CELL + ";text-align:right;font-family:monospace;white-space:nowrap"
+
+
+def source_html(source: str, limit: int = 40) -> str:
+    """A source on screen: shortened to ``limit`` characters, the whole text on hover."""
+    text = str(source)
+    if len(text) <= limit:
+        return html.escape(text)
+    short = text[:limit].rsplit(" ", 1)[0].rstrip(";,(") + " …"
+    return f"<span title='{html.escape(text, quote=True)}' style='border-bottom:1px dotted #888'>{html.escape(short)}</span>"
+
+
 def results_html(results: Mapping[str, Mapping], title: str = "Results") -> str:
+    from ..record.verdict import pretty_unit
+
     rows = "".join(
-        f"<tr><td>{html.escape(str(r.get('label', key)))}</td>"
-        f"<td style='text-align:right;font-family:monospace'>{html.escape(number(r.get('value')))}</td>"
-        f"<td style='padding-left:0.5em'>{html.escape(str(r.get('unit', '')))}</td></tr>"
+        f"<tr><td style='{_CELL}'>{html.escape(str(r.get('label', key)))}</td>"
+        f"<td style='{_NUM}'>{html.escape(number(r.get('value')))}</td>"
+        f"<td style='{_CELL}'>{html.escape(pretty_unit(str(r.get('unit', ''))))}</td></tr>"
         for key, r in results.items()
     )
     return (f"<div class='wb-results'><b>{html.escape(title)}</b>"
-            "<table style='border-collapse:collapse;min-width:36em'>"
-            "<tr><th style='text-align:left'>Quantity</th><th>Value</th><th>Unit</th></tr>"
+            "<table style='border-collapse:collapse;min-width:36em;line-height:1.35'>"
+            f"<tr><th style='{_CELL};text-align:left'>Quantity</th><th style='{_CELL}'>Value</th>"
+            f"<th style='{_CELL}'>Unit</th></tr>"
             f"{rows}</table></div>")
 
 
 def findings_html(findings: Iterable[Mapping], title: str = "Checks") -> str:
+    from ..record.verdict import margin_text, pretty_unit
+
     items = list(findings)
     counts = {lvl: sum(1 for f in items if f.get("level") == lvl) for lvl in ("fail", "caution", "pass")}
     head = (f"<b>{html.escape(title)}</b>: {counts['fail']} fail, {counts['caution']} caution, "
@@ -71,25 +89,27 @@ def findings_html(findings: Iterable[Mapping], title: str = "Checks") -> str:
     for f in items:
         lvl = f.get("level", "pass")
         margin = f.get("margin")
-        margin_text = "–" if margin is None else f"{margin * 100:+.0f} %"
-        unit = html.escape(str(f.get("unit", "")))
+        margin_shown = "–" if margin is None else margin_text(margin)
+        unit = html.escape(pretty_unit(str(f.get("unit", ""))))
+        value = "" if f.get("value") is None else f"{html.escape(number(f.get('value')))} {unit}"
+        limit = "" if f.get("limit") is None else f"{html.escape(number(f.get('limit')))} {unit}"
         rows.append(
             f"<tr class='wb-finding wb-level-{lvl}'>"
-            f"<td style='{LEVEL_STYLE.get(lvl, '')};white-space:nowrap'>{LEVEL_MARK.get(lvl, lvl)}</td>"
-            f"<td style='white-space:nowrap'><code>{html.escape(str(f.get('rule_id', '')))}</code></td>"
-            f"<td>{html.escape(str(f.get('statement', '')))}"
-            + (f"<br><span style='color:#555'>{html.escape(str(f['detail']))}</span>" if f.get("detail") else "")
+            f"<td style='{LEVEL_STYLE.get(lvl, '')};{_CELL};white-space:nowrap'>{LEVEL_MARK.get(lvl, lvl)}</td>"
+            f"<td style='{_CELL};white-space:nowrap'><code>{html.escape(str(f.get('rule_id', '')))}</code></td>"
+            f"<td style='{_CELL}'>{html.escape(str(f.get('statement', '')))}"
+            + (f"<br><span style='color:#555;font-size:92%'>{html.escape(pretty_unit(str(f['detail'])))}</span>"
+               if f.get("detail") else "")
             + "</td>"
-            f"<td style='text-align:right;font-family:monospace;white-space:nowrap'>"
-            f"{html.escape(number(f.get('value')))} {unit}</td>"
-            f"<td style='text-align:right;font-family:monospace;white-space:nowrap'>"
-            f"{html.escape(number(f.get('limit')))} {unit}</td>"
-            f"<td style='text-align:right;white-space:nowrap'>{margin_text}</td>"
-            f"<td style='color:#444'>{html.escape(str(f.get('source', '')))}</td></tr>"
+            f"<td style='{_NUM}'>{value}</td>"
+            f"<td style='{_NUM}'>{limit}</td>"
+            f"<td style='{_NUM}'>{html.escape(margin_shown)}</td>"
+            f"<td style='{_CELL};color:#444;font-size:92%;min-width:12em'>{source_html(f.get('source', ''))}</td></tr>"
         )
-    return (f"<div class='wb-findings'>{head}<table style='border-collapse:collapse;width:100%'>"
-            "<tr><th>Level</th><th>Rule</th><th style='text-align:left'>Check</th><th>Value</th>"
-            "<th>Limit</th><th>Margin</th><th style='text-align:left'>Source</th></tr>"
+    return (f"<div class='wb-findings'>{head}<table style='border-collapse:collapse;width:100%;line-height:1.35'>"
+            f"<tr><th style='{_CELL}'>Level</th><th style='{_CELL}'>Rule</th><th style='{_CELL};text-align:left'>"
+            f"Check</th><th style='{_CELL}'>Value</th><th style='{_CELL}'>Limit</th><th style='{_CELL}'>Margin</th>"
+            f"<th style='{_CELL};text-align:left'>Source</th></tr>"
             + "".join(rows) + "</table></div>")
 
 
@@ -117,7 +137,7 @@ def verdict_html(v, title: str = "Whole axis") -> str:
             f"{LEVEL_MARK.get(item.level, item.level)}</td>"
             f"<td style='padding:2px 6px'>{html.escape(item.text)}{case}</td>"
             f"<td style='text-align:right;white-space:nowrap;padding:2px 6px'>{html.escape(margin_text(item.margin))}</td>"
-            f"<td style='color:#444;padding:2px 6px;font-size:90%'>{html.escape(item.source)}<br>"
+            f"<td style='color:#444;padding:2px 6px;font-size:90%'>{source_html(item.source)}<br>"
             f"<span style='color:#666'>found by {html.escape(item.found_by)}</span></td></tr>")
     for study, why in v.incomplete:
         rows.append(f"<tr class='wb-verdict-item wb-level-notrun'><td style='{LEVEL_STYLE['fail']};padding:2px 6px'>"
@@ -125,7 +145,7 @@ def verdict_html(v, title: str = "Whole axis") -> str:
                     f"refuses these inputs: {html.escape(why)}</td></tr>")
     table = ""
     if rows:
-        table = ("<table style='border-collapse:collapse;width:100%;font-size:92%'>"
+        table = ("<table style='border-collapse:collapse;width:100%;font-size:92%;line-height:1.3'>"
                  "<tr><th>Level</th><th style='text-align:left'>Breach and worst case</th><th>Margin</th>"
                  "<th style='text-align:left'>Source</th></tr>" + "".join(rows) + "</table>")
     return f"<div class='wb-verdict'>{head}{table}</div>"
@@ -168,5 +188,5 @@ class HtmlBox:
         self.widget.value = (STALE_NOTE + f"<div style='opacity:0.55'>{self._body}</div>") if stale else self._body
 
 
-__all__ = ["results_html", "findings_html", "caution_html", "verdict_html", "differences_html", "HtmlBox", "number",
+__all__ = ["results_html", "findings_html", "caution_html", "verdict_html", "source_html", "differences_html", "HtmlBox", "number",
            "LEVEL_MARK"]
