@@ -42,7 +42,7 @@ naming the file, the line and the dotted key (``cycle.steps[2].axis``) and what 
 >>> loads_design(text, "demo.toml")
 Traceback (most recent call last):
 ...
-workbook.design.DesignFileError: demo.toml, line 10, cycle.steps[2].dwell: got '-5 s'; allowed: a time greater than 0 s and at most 86400 s
+workbook.design.DesignFileError: demo.toml, line 11, cycle.steps[2].dwell: got '-5 s'; allowed: a time greater than 0 s and at most 86400 s
 """
 
 from __future__ import annotations
