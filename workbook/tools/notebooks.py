@@ -62,6 +62,17 @@ STUDIES = {
         "back-pressure valve costs its setting times the flow as heat all the time.",
         'panel.set("holding.setting", "35 bar")',
     ),
+    "6-machine-cycle.ipynb": (
+        "machine-cycle", None, "Machine cycle and heat",
+        "The bin tipper's cycle over both axes on the one power unit (lift the full bin, tip, tip back, "
+        "lower, wait for the next bin): energy and heat of every step by where it arises, the RMS and peak "
+        "shaft power against the motor, the oil temperature the tank settles at, the cooler or tank that "
+        "would hold 60 degC, and the changes an engineer weighs, side by side on the same cycle.",
+        "The timeline shades each step by its axis; dwells and the idle rest of the period are unshaded. "
+        "A fixed pump with a flow valve runs at its relief pressure while it meters, so most of its "
+        "power becomes heat; the alternatives table shows which change cuts that most.",
+        'panel.controls["cooler_duty"].submit("6 kW")',
+    ),
 }
 
 DESIGN = "designs/bin-tipper.toml"
@@ -78,6 +89,9 @@ def _sentence(text: str) -> str:
 
 def _cells(kind, axis, title, purpose, hint, try_line):
     import nbformat.v4 as nbf
+
+    if kind == "machine-cycle":
+        return _machine_cells(title, purpose, hint, try_line)
 
     panel = nbf.new_code_cell(
         "from workbook.ui import open_study\n\n"
@@ -101,6 +115,33 @@ def _cells(kind, axis, title, purpose, hint, try_line):
             "never change the design."),
         nbf.new_markdown_cell("## Summary\n\nThe whole axis's verdict, then this study's inputs, results and "
                               "findings as plain text; nbval compares this output on every test run."),
+        nbf.new_code_cell("print(panel.summary())"),
+    ]
+
+
+def _machine_cells(title, purpose, hint, try_line):
+    """The machine study's notebook: the panel on the design's [cycle] (every axis), its summary."""
+    import nbformat.v4 as nbf
+
+    panel = nbf.new_code_cell(
+        "from workbook.ui.machine_panel import open_machine\n\n"
+        f'panel = open_machine("{DESIGN}")\n'
+        "panel.show()")
+    panel.metadata["tags"] = [IGNORE_TAG]
+    return [
+        nbf.new_markdown_cell(
+            f"# {title}\n\n{purpose}\n\n> **Caution.** {_sentence(CAUTION.removeprefix('Caution: '))}\n\n"
+            f"Design: `{DESIGN}`, its `[cycle]` table and both axes (an invented bin tipper). The panel opens "
+            "on the design file and shows, at the top, the machine's verdict (the same findings as "
+            "`axisbook evaluate`). Its entries are the cycle's own inputs (tank, cooling, idle state, cycles "
+            "per hour); change an axis in its own study. **Record machine** writes the machine record and its "
+            "review copy beside the axis records."),
+        panel,
+        nbf.new_markdown_cell(
+            f"{hint}\n\nTo try a value from code, add a cell such as `{try_line}`: the panel above follows "
+            "it. The cells of this notebook never change the design."),
+        nbf.new_markdown_cell("## Summary\n\nThe machine's verdict, the cycle, results, findings and the "
+                              "alternatives as plain text; nbval compares this output on every test run."),
         nbf.new_code_cell("print(panel.summary())"),
     ]
 
