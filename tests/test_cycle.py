@@ -195,3 +195,17 @@ def test_demo_machine_record_round_trip_and_recheck(tmp_path):
     assert rows["unloading"]["applies"] and rows["unloading"]["heat_kw"] < rows["as drawn"]["heat_kw"]
     ids = {f["rule_id"] for f in outcome.findings}
     assert {"CYC-OIL-TEMP", "CYC-COOLER", "CYC-TANK-SIZE", "CYC-MOTOR-RMS", "CYC-MOTOR-PEAK"} <= ids
+
+
+def test_evaluate_writes_and_prints_the_machine_verdict(tmp_path, capsys):
+    """axisbook evaluate writes <design>.machine.json with its review copy beside the axis
+    records and prints the machine verdict; recheck re-runs it (demo scenario)."""
+    from workbook.cli import main
+
+    code = main(["evaluate", "notebooks/designs/bin-tipper.toml", "--out", str(tmp_path), "--study", "machine-cycle"])
+    out = capsys.readouterr().out
+    assert code == 1                                      # the demo's oil runs above 60 degC: a fail
+    assert (tmp_path / "bin-tipper.machine.json").exists() and (tmp_path / "bin-tipper.machine.html").exists()
+    assert not (tmp_path / "bin-tipper-lift.json").exists()   # --study machine-cycle alone
+    assert "Machine cycle: FAIL" in out and "helps most: unloading" in out
+    assert main(["recheck", str(tmp_path / "bin-tipper.machine.json")]) == 0
