@@ -10,7 +10,8 @@ module grades it and compares the alternatives an engineer weighs, on the same c
 * ``unloading``: the pump unloaded to tank during dwells and the idle rest of the period;
 * ``smaller pump``: the pump flow cut to the largest flow a metered step takes, plus 10 %
   (common practice margin for the compensator); steps the pump drives directly slow down;
-* ``counterbalance``: a back-pressure valve replaced by a counterbalance at the same setting.
+* ``counterbalance``: a back-pressure valve replaced by a counterbalance at the same setting;
+* ``all of them``: every change above that applies, together.
 
 Findings (machine level; they replace the axis check's per-point heat share as the verdict
 on heat, which stays in the axis records as information):
@@ -51,13 +52,14 @@ PURPOSE = ("Over the machine's real cycle, how hot the oil gets, whether the tan
 MACHINE_AXIS = "machine"
 #: margin kept over the largest metered flow when a smaller pump is tried (common practice)
 PUMP_MARGIN = 0.10
-ALTERNATIVES = ("as drawn", "meter-in", "unloading", "smaller pump", "counterbalance")
+ALTERNATIVES = ("as drawn", "meter-in", "unloading", "smaller pump", "counterbalance", "all of them")
 _ALT_WORDS = {
     "as drawn": "the design as drawn",
     "meter-in": "meter-in instead of meter-out",
     "unloading": "pump unloaded during dwells",
     "smaller pump": "a smaller pump, same metered speeds",
     "counterbalance": "counterbalance in place of a back-pressure valve",
+    "all of them": "every change above that applies, together",
 }
 _C0 = 273.15
 
@@ -113,7 +115,8 @@ class MachineOutcome:
 
 #: short names of the alternatives for the table
 _ALT_SHORT = {"as drawn": "as drawn", "meter-in": "meter-in for meter-out", "unloading": "unloaded in dwells",
-              "smaller pump": "smaller pump", "counterbalance": "counterbalance for back-pr."}
+              "smaller pump": "smaller pump", "counterbalance": "counterbalance for back-pr.",
+              "all of them": "all of them together"}
 
 
 def alternatives_text(rows) -> list[str]:
@@ -204,7 +207,21 @@ def _row(key: str, m: MachineCycle | None, why: str = "") -> dict:
 def alternatives(axes_values: Mapping, cycle: Mapping, drawn: MachineCycle) -> list[dict]:
     """Each alternative of :data:`ALTERNATIVES` on the same cycle (a row per alternative)."""
     rows = [_row("as drawn", drawn)]
+    together = (axes_values, cycle)
+    for key in ALTERNATIVES[1:-1]:
+        got = _alt_values(key, *together, drawn)
+        together = together if isinstance(got, str) else got
     for key in ALTERNATIVES[1:]:
+        if key == "all of them":
+            applied = [r for r in rows[1:] if r["applies"]]
+            if len(applied) < 2:
+                rows.append(_row(key, None, "fewer than two changes apply"))
+                continue
+            try:
+                rows.append(_row(key, _machine(*together)))
+            except InputError as exc:
+                rows.append(_row(key, None, str(exc)))
+            continue
         got = _alt_values(key, axes_values, cycle, drawn)
         if isinstance(got, str):
             rows.append(_row(key, None, got))
@@ -217,9 +234,10 @@ def alternatives(axes_values: Mapping, cycle: Mapping, drawn: MachineCycle) -> l
 
 
 def best_alternative(rows) -> dict | None:
-    """The alternative that lowers the mean heat most against the design as drawn (None if none does)."""
+    """The single change that lowers the mean heat most against the design as drawn (None if none does)."""
     drawn = rows[0]
-    better = [r for r in rows[1:] if r["applies"] and r["heat_kw"] < drawn["heat_kw"] * (1 - 1e-9)]
+    better = [r for r in rows[1:] if r["applies"] and r["key"] != "all of them"
+              and r["heat_kw"] < drawn["heat_kw"] * (1 - 1e-9)]
     return min(better, key=lambda r: r["heat_kw"]) if better else None
 
 
