@@ -1,9 +1,11 @@
 """Create and refresh the study notebooks.
 
 ``python -m workbook.tools.notebooks refresh notebooks`` executes every study notebook with
-the library as it is now (nbclient), keeps the text outputs that nbval compares, drops the
-outputs of widget cells (their model ids change on every run) and the saved widget state,
-and writes the notebooks back, small and free of absolute paths.
+the library as it is now (nbclient), keeps the text outputs that nbval compares, keeps the
+panel's static snapshot (its verdict, results, findings and SVG figures as HTML, so the saved
+notebook reads as a design record without a kernel), drops the widget's own output (its
+model id changes on every run) and the saved widget state, and writes the notebooks back,
+small and free of absolute paths.
 
 Creating rewrites a notebook whose cells no longer follow the template (``create --force``).
 
@@ -164,6 +166,13 @@ def create(folder: Path, force: bool = False) -> list[Path]:
     return written
 
 
+def nbformat_output(page: str):
+    """A display output holding only the snapshot's HTML (no metadata, no transient id)."""
+    import nbformat.v4 as nbf
+
+    return nbf.new_output("display_data", data={"text/html": page})
+
+
 def _strip(nb) -> None:
     nb.metadata.pop("widgets", None)
     nb.metadata["language_info"] = {"name": "python"}
@@ -172,7 +181,15 @@ def _strip(nb) -> None:
             continue
         cell.metadata.pop("execution", None)
         if IGNORE_TAG in cell.metadata.get("tags", ()):
-            cell.outputs = []
+            # the widget's own output (its model id changes every run) goes; the panel's static
+            # snapshot stays, so the saved notebook reads as a design record without a kernel
+            kept = []
+            for o in cell.outputs:
+                page = o.get("data", {}).get("text/html", "")
+                page = "".join(page) if isinstance(page, list) else page
+                if o.get("output_type") in ("display_data", "execute_result") and "wb-snapshot" in page:
+                    kept.append(nbformat_output(page))
+            cell.outputs = kept
         else:
             cell.outputs = [o for o in cell.outputs if o.get("output_type") == "stream"
                             or "text/plain" in o.get("data", {})]

@@ -185,11 +185,14 @@ class StudyPanel:
         self.notice_box = W.VBox([self.notice, W.HBox([self.use_record_button, self.keep_file_button])])
         self.notice_box.add_class("wb-record-notice-box")
         self.verdict_box = HtmlBox("wb-verdict-box")
+        # while the live panel is on the page, its saved snapshot (a separate output) is hidden
+        self.live_style = W.HTML("<style>.wb-snapshot { display: none !important; }</style>")
+        self.live_style.add_class("wb-live-style")
         self.changes_box = HtmlBox("wb-changes-box")
         # the notebook's first cell states the caution; the panel repeats it beside the record
         # actions (once on the first screen, and with whatever the panel is saved or shown in)
         self.widget = W.VBox([
-            self.notice_box, self.verdict_box.widget, self.form, self.status,
+            self.live_style, self.notice_box, self.verdict_box.widget, self.form, self.status,
             self.results_box.widget, self.findings_box.widget,
             self.plot_note, self.plot_area, self.changes_box.widget,
             W.HBox([self.note, W.VBox([self.record_button, self.export_button])]),
@@ -202,11 +205,61 @@ class StudyPanel:
         self.show()
 
     def show(self):
-        """Display the panel in a notebook (loading the installed BokehJS inline first)."""
-        from IPython.display import display
+        """Display the panel in a notebook (loading the installed BokehJS inline first), and
+        beside it its static snapshot (:meth:`snapshot_html`), which the notebook saves: a
+        reviewer who opens the saved notebook without a kernel, or converts it with
+        nbconvert, reads the same verdict, results, findings and figures. While the live panel
+        is shown, its style sheet hides the snapshot; the snapshot follows every new result."""
+        from IPython.display import HTML, display
 
         load_bokehjs()
         display(self.widget)
+        self._snapshot = display(HTML(self.snapshot_html()), display_id=True)
+
+    def _refresh_snapshot(self) -> None:
+        handle = getattr(self, "_snapshot", None)
+        if handle is not None:
+            from IPython.display import HTML
+
+            handle.update(HTML(self.snapshot_html()))
+
+    def snapshot_html(self) -> str:
+        """The panel as static HTML: the caution, the whole axis's verdict, the inputs that
+        differ from the design file, this study's results and findings, its figures as SVG
+        (as the review copy draws them). Deterministic: no widget id, address or time; out of
+        date results are said to be so."""
+        from ..record.svg import line_chart
+        from ..studies.base import figures_for_record
+
+        title = f"{self.study.TITLE}: axis {self.axis_key or self.identity.get('axis', '')}"
+        parts = [f"<div class='wb-snapshot'><h3 style='margin:4px 0'>{html.escape(title)} "
+                 "<span style='font-weight:normal;color:#555;font-size:80%'>(saved view of the panel)</span></h3>",
+                 caution_html()]
+        if self.outcome is None:
+            parts.append(f"<p><b>No valid result:</b> {html.escape(str(self.error))}</p></div>")
+            return "".join(parts)
+        if self.stale:
+            parts.append("<div style='color:#8a0010;font-weight:bold;border:2px solid #8a0010;padding:4px 8px'>"
+                         "&#9888; OUT OF DATE: an entry was not accepted when this was saved; what follows are "
+                         f"the last valid results. ({html.escape(self.status_text())})</div>")
+        if self.evaluation is not None:
+            parts.append(verdict_html(self.evaluation.verdict()))
+        parts.append(self.changes_box._body)
+        parts.append(results_html(self.outcome.results))
+        parts.append(findings_html(self.outcome.findings, title=f"Checks of this study ({self.study.TITLE})"))
+        for fig in figures_for_record(self.outcome.figures).values():
+            parts.append(f"<figure style='margin:6px 0'><figcaption><b>{html.escape(fig['title'])}</b></figcaption>"
+                         f"{line_chart(fig)}</figure>")
+        parts.append("</div>")
+        # a table row or a drawn element a line: a changed input moves a few lines of the saved
+        # notebook, not one long line
+        return "\n".join(parts).replace("</tr>", "</tr>\n").replace("/>", "/>\n")
+
+    def status_text(self) -> str:
+        """The status line as plain text."""
+        import re
+
+        return html.unescape(re.sub(r"<[^>]+>", "", self.status.value)).strip()
 
     # ----------------------------------------------------------------- compute
     def _on_control(self, ctl: QuantityControl) -> None:
@@ -262,6 +315,7 @@ class StudyPanel:
         self.findings_box.update(findings_html(outcome.findings, title=f"Checks of this study ({self.study.TITLE})"))
         self._update_plots(outcome)
         self._show_changes()
+        self._refresh_snapshot()
         return True
 
     # ----------------------------------------------------------------- design file and record
@@ -348,6 +402,7 @@ class StudyPanel:
         self.findings_box.mark_stale()
         self.plot_note.value = ("<div class='wb-stale-note' style='color:#8a0010;font-weight:bold'>"
                                 "&#9888; Out of date: the curves below are the last valid results.</div>")
+        self._refresh_snapshot()
 
     def _update_plots(self, outcome) -> None:
         changed = False

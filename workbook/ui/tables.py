@@ -49,7 +49,7 @@ def caution_html() -> str:
             f"background:#fafafa'>{html.escape(CAUTION)}</div>")
 
 
-_CELL = "padding:2px 10px 2px 6px;vertical-align:top"
+_CELL = "padding:2px 10px 2px 6px;vertical-align:top;text-align:left"
 _NUM = _CELL + ";text-align:right;font-family:monospace;white-space:nowrap"
 
 
@@ -133,15 +133,15 @@ def verdict_html(v, title: str = "Whole axis") -> str:
                 if item.case else "")
         rows.append(
             f"<tr class='wb-verdict-item wb-level-{item.level}' data-rules='{html.escape(' '.join(item.rule_ids))}'>"
-            f"<td style='{LEVEL_STYLE.get(item.level, '')};white-space:nowrap;padding:2px 6px'>"
+            f"<td style='{LEVEL_STYLE.get(item.level, '')};white-space:nowrap;padding:2px 6px;text-align:left'>"
             f"{LEVEL_MARK.get(item.level, item.level)}</td>"
-            f"<td style='padding:2px 6px'>{html.escape(item.text)}{case}</td>"
-            f"<td style='text-align:right;white-space:nowrap;padding:2px 6px'>{html.escape(margin_text(item.margin))}</td>"
-            f"<td style='color:#444;padding:2px 6px;font-size:90%'>{source_html(item.source)}<br>"
+            f"<td style='padding:2px 6px;text-align:left'>{html.escape(item.text)}{case}</td>"
+            f"<td style='text-align:right;white-space:nowrap;padding:2px 6px;text-align:right'>{html.escape(margin_text(item.margin))}</td>"
+            f"<td style='color:#444;padding:2px 6px;font-size:90%;text-align:left'>{source_html(item.source)}<br>"
             f"<span style='color:#666'>found by {html.escape(item.found_by)}</span></td></tr>")
     for study, why in v.incomplete:
-        rows.append(f"<tr class='wb-verdict-item wb-level-notrun'><td style='{LEVEL_STYLE['fail']};padding:2px 6px'>"
-                    f"&#9888; NOT RUN</td><td colspan='3' style='padding:2px 6px'>The {html.escape(study)} study "
+        rows.append(f"<tr class='wb-verdict-item wb-level-notrun'><td style='{LEVEL_STYLE['fail']};padding:2px 6px;text-align:left'>"
+                    f"&#9888; NOT RUN</td><td colspan='3' style='padding:2px 6px;text-align:left'>The {html.escape(study)} study "
                     f"refuses these inputs: {html.escape(why)}</td></tr>")
     table = ""
     if rows:
@@ -160,8 +160,8 @@ def differences_html(rows, title: str, empty: str = "") -> str:
     body = "".join(
         f"<tr class='wb-difference'><td style='padding:1px 8px'>{html.escape(lbl)}"
         f"<span style='color:#666'> ({html.escape(sec)})</span></td>"
-        f"<td style='padding:1px 8px;font-family:monospace'>{html.escape(a)}</td>"
-        f"<td style='padding:1px 8px;font-family:monospace'>{html.escape(b)}</td></tr>"
+        f"<td style='padding:1px 8px;font-family:monospace;text-align:left'>{html.escape(a)}</td>"
+        f"<td style='padding:1px 8px;font-family:monospace;text-align:left'>{html.escape(b)}</td></tr>"
         for lbl, sec, a, b in rows)
     return (f"<div class='wb-differences'><b>{html.escape(heading)}</b>"
             f"<table style='border-collapse:collapse'><tr><th style='text-align:left;padding:1px 8px'>Input</th>"
