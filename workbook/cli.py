@@ -136,7 +136,8 @@ def build_parser() -> argparse.ArgumentParser:
                         "default: every axis")
     p.add_argument("--study", metavar="KIND", nargs="+", action="extend", dest="studies",
                    help="run only these studies (axis-check, restrictor-sizing, speed-vs-load, rod-pressure, "
-                        "counterbalance; give DESIGN.toml first); default: all of them")
+                        "counterbalance, and machine-cycle for the design's [cycle]; give DESIGN.toml first); "
+                        "default: all of them (the machine cycle only without --axis)")
     p.add_argument("--markdown", action="store_true", help="also write a Markdown review copy of each record")
     p.set_defaults(run=_cmd_evaluate)
 
@@ -277,8 +278,10 @@ def _cmd_evaluate(args) -> int:
     for key in args.axes or ():
         if key not in design.axes:
             raise InputError("--axis", repr(key), f"one of the axes of {design.source}: " + ", ".join(design.axes))
-    # the machine cycle runs when the design has one and --study does not leave it out
-    with_machine = design.cycle is not None and (not args.studies or MACHINE_KIND in kinds)
+    # the machine cycle (every axis) runs when the design has one, unless --study leaves it out or
+    # --axis picks axes without naming it in --study
+    asked = bool(args.studies) and MACHINE_KIND in kinds
+    with_machine = design.cycle is not None and (asked or (not args.studies and not args.axes))
     kinds = tuple(k for k in kinds if k != MACHINE_KIND)
     evaluated = evaluate_design(design, studies=kinds, axes=args.axes) if kinds or not with_machine else {}
     machine = evaluate_machine(design) if with_machine else None
