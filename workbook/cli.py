@@ -303,9 +303,12 @@ def _cmd_evaluate(args) -> int:
         if machine is not None:  # "<design>.machine.json": an axis key holds no dot, so it never collides
             path = _inside(out, f"{stem}.machine.json")
             save(machine[0], path)
-            export_html(machine[0], _inside(out, path.with_suffix(".html").name))
+            from .studies.machine_cycle import review_record
+
+            shown = review_record(machine[0])   # readable inputs in place of the record's JSON note
+            export_html(shown, _inside(out, path.with_suffix(".html").name))
             if args.markdown:
-                export_markdown(machine[0], _inside(out, path.with_suffix(".md").name))
+                export_markdown(shown, _inside(out, path.with_suffix(".md").name))
             written_sets[None] = path
     for axis_key, (record, _outcomes) in evaluated.items():
         path = written_sets[axis_key]

@@ -423,6 +423,33 @@ def record_inputs(record: Record) -> tuple[dict, dict]:
     return inputs_from_data(data)
 
 
+def review_record(record: Record) -> Record:
+    """The machine record as its review copy shows it: the note of machine inputs (JSON)
+    replaced by readable lines (the cycle's inputs with their labels, one line per step; the
+    axis inputs are in the axis records). For HTML and Markdown only; save the record itself."""
+    import dataclasses
+
+    study = record.studies.get(KIND)
+    if study is None:
+        return record
+    axes_values, cycle = record_inputs(record)
+    lines = []
+    for f in CYCLE.fields:
+        v = cycle["values"].get(f.key)
+        lines.append(f"Cycle input: {f.label} = {'(empty)' if v is None else f.as_text(v, digits=4)}")
+    for i, st in enumerate(cycle["steps"], 1):
+        if st.kind == "dwell":
+            lines.append(f"Step {i}: {st.label}: dwell {st.duration:.4g} s")
+        else:
+            how = "duration from the stroke and the solved speed" if st.duration is None else f"{st.duration:.4g} s"
+            part = "" if st.stroke is None else f", stroke {st.stroke * 1e3:.4g} mm"
+            lines.append(f"Step {i}: {st.label}: axis {st.axis} {st.direction}, load {st.load / 1e3:.4g} kN "
+                         f"(with the weight along the rod){part}; {how}")
+    lines.append(f"Axis inputs: in the axis records of {', '.join(axes_values)} (the record itself holds them too).")
+    notes = [n for n in study.notes if not n.startswith(INPUTS_NOTE)] + lines
+    return record.with_study(dataclasses.replace(study, notes=notes), key=KIND)
+
+
 def to_record(outcome: MachineOutcome, identity: Mapping, notes=()) -> Record:
     """The machine record: an ordinary record with identity axis ``"machine"``, one study."""
     rec = Record({**dict(identity), "axis": MACHINE_AXIS})
@@ -432,5 +459,5 @@ def to_record(outcome: MachineOutcome, identity: Mapping, notes=()) -> Record:
 
 
 __all__ = ["KIND", "TITLE", "PURPOSE", "run_machine", "run", "MachineOutcome", "alternatives", "best_alternative",
-           "alternatives_text", "to_record", "record_inputs", "machine_inputs_data", "inputs_from_data",
+           "alternatives_text", "to_record", "review_record", "record_inputs", "machine_inputs_data", "inputs_from_data",
            "MACHINE_AXIS", "ALTERNATIVES"]

@@ -207,7 +207,7 @@ class MachinePanel:
         self.record_path.parent.mkdir(parents=True, exist_ok=True)
         save(rec, self.record_path)
         if self.export_path is not None:
-            export_html(rec, self.export_path)
+            export_html(machine_cycle.review_record(rec), self.export_path)
         return self.record_path
 
     def summary(self) -> str:
