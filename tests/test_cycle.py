@@ -209,3 +209,38 @@ def test_evaluate_writes_and_prints_the_machine_verdict(tmp_path, capsys):
     assert not (tmp_path / "bin-tipper-lift.json").exists()   # --study machine-cycle alone
     assert "Machine cycle: FAIL" in out and "helps most: unloading" in out
     assert main(["recheck", str(tmp_path / "bin-tipper.machine.json")]) == 0
+
+
+def test_steps_longer_than_the_period_name_the_design_key():
+    """A cycle whose steps outlast 3600 / cycles_per_hour is refused at cycle.cycles_per_hour
+    in the design file (demo scenario: about 59 s of steps against a 36 s period)."""
+    from workbook.review import evaluate_machine
+
+    text = open("notebooks/designs/bin-tipper.toml", encoding="utf-8").read()
+    design = loads_design(text.replace("cycles_per_hour = 40", "cycles_per_hour = 100"), "bt.toml")
+    with pytest.raises(DesignFileError) as err:
+        evaluate_machine(design)
+    assert err.value.key == "cycle.cycles_per_hour" and err.value.line is not None
+    assert "at most" in err.value.allowed
+
+
+def test_machine_panel_records_real_files_and_refuses_when_stale(tmp_path):
+    """The panel writes the machine record and its review copy (real files), refuses to while
+    an entry is refused, and a cooler of the needed duty holds the highest oil temperature
+    (thermostatic cooler of workbook.cycle; demo scenario)."""
+    from workbook.record import load
+    from workbook.ui.machine_panel import open_machine
+
+    panel = open_machine("notebooks/designs/bin-tipper.toml", records_dir=tmp_path)
+    need = panel.outcome.results["cooler_needed"]["value"]
+    assert panel.controls["cooler_duty"].submit(f"{need * 1.01:.6g} kW")
+    assert panel.outcome.results["oil_temperature"]["value"] == pytest.approx(60.0)
+    assert not panel.controls["ambient"].submit("500 degC")
+    assert panel.stale
+    with pytest.raises(InputError, match="out of date"):
+        panel.record()
+    assert panel.controls["ambient"].submit("30 degC")
+    path = panel.record()
+    rec = load(path)
+    assert rec.axis == "machine" and path.with_suffix(".html").exists()
+    assert "Machine verdict:" in panel.summary()

@@ -162,7 +162,7 @@ def evaluate_machine(design: Design):
     except DesignFileError:
         raise
     except InputError as exc:
-        key = exc.field if exc.field.startswith(("axes.", "cycle")) else f"cycle.{exc.field}"
+        key = exc.field if exc.field.startswith(("axes.", "cycle.")) else f"cycle.{exc.field}"
         raise design.error(key, exc.given, exc.allowed) from None
     ident = design.identity_for(next(iter(design.axes)))
     record = _machine.to_record(outcome, ident, notes=[f"Evaluated from {design.source or 'a design file'}, "
