@@ -244,3 +244,17 @@ def test_machine_panel_records_real_files_and_refuses_when_stale(tmp_path):
     rec = load(path)
     assert rec.axis == "machine" and path.with_suffix(".html").exists()
     assert "Machine verdict:" in panel.summary()
+
+
+def test_a_runaway_step_is_flagged_not_balanced():
+    """An overrunning load on a retract stroke without a holding valve on its cap side runs
+    away (no steady state, workbook.circuit): the step keeps the shaft power it does account
+    for and says how much it does not (force balance; common practice: never leave an
+    overrunning load without a holding valve)."""
+    step = Step("motion", axis="tip", direction="retract", load=6e3, label="back, loaded")
+    res = evaluate_cycle(_axes(), _spec(steps=(step,)), 323.15)
+    first = res.steps[0]
+    assert first.regime in ("running away", "sinking")
+    assert first.unbalanced != 0.0
+    balanced = res.steps[1]                       # the idle rest of the period still balances
+    assert balanced.unbalanced == 0.0
