@@ -25,7 +25,6 @@ from __future__ import annotations
 
 import copy
 import html
-import os
 from pathlib import Path
 
 import ipywidgets as W
@@ -48,9 +47,10 @@ KEY_FIELDS = ("cycles_per_hour", "idle", "ambient", "oil_max", "tank_volume", "t
 def machine_record_paths(design_path, records_dir=None) -> tuple[Path, Path]:
     """``(record.json, record.html)`` of the machine of the design at ``design_path``: the
     axis records' folder (``WORKBOOK_RECORDS_DIR`` moves it), ``<stem>.machine.json``."""
+    from .opening import record_paths
+
     design_path = Path(design_path)
-    records_dir = records_dir or os.environ.get("WORKBOOK_RECORDS_DIR") or None
-    folder = Path(records_dir) if records_dir else design_path.resolve().parent.parent / "records"
+    folder = record_paths(design_path, "machine", records_dir)[0].parent   # the axis records' folder
     return folder / f"{design_path.stem}.machine.json", folder / f"{design_path.stem}.machine.html"
 
 
