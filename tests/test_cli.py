@@ -216,11 +216,12 @@ def test_compare_identical_and_changed_bore(tmp_path):
     code, out, err = axisbook("compare", "a/bin-tipper-lift.json", "c/bin-tipper-lift.json", cwd=tmp_path)
     no_traceback(err)
     assert code == 1, out + err
+    out = unwrap(out)
     assert re.search(r"input cylinder\.bore \(.*\): 80 mm -> 90 mm", out), out
     # the area ratio A1/A3 follows from the bore: 80²/(80² - 45²) -> 90²/(90² - 45²),
     # 1.4628 -> 1.3333, -8.85 % (area of a circle, derived by hand)
-    assert re.search(r"\[axis-check\] result area_ratio \(Area ratio A1/A3\): 1\.4628\d* -> 1\.3333\d* "
-                     r"\(-8\.85 %\)", out), out
+    assert re.search(r"\[axis-check\] result area_ratio \(Area ratio φ \(cap area / annulus area\)\): "
+                     r"1\.4628\d* -> 1\.3333\d* \(-8\.85 %\)", out), out
 
 
 def test_recheck_clean_and_perturbed(demo, tmp_path):

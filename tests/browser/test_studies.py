@@ -264,6 +264,13 @@ def test_study_panel_in_the_browser(lab_server, page, browser_log, study_folder)
     assert entry_rec["title"] in text
     missing = [s for s in sources if s not in text]
     assert not missing, f"finding sources not in the review copy: {missing}"
+    # the review copy reads in a few screens: at most 8 at 1440 x 900, verdict first
+    page.set_viewport_size({"width": 1440, "height": 900})
+    page.wait_for_timeout(200)
+    height = page.evaluate("() => document.documentElement.scrollHeight")
+    assert height <= 8 * 900, f"the review copy is {height} px tall, more than 8 screens"
+    verdict_top = page.locator("#verdict").bounding_box()["y"]
+    assert verdict_top < 900 and page.locator("#verdict tr.row-fail, #verdict tr.row-caution").count() >= 1
     screenshot(page, f"study-{study.kind}-export")
     browser_log.assert_clean()
 
@@ -345,4 +352,28 @@ def test_record_notice_and_stale_refusals_in_the_browser(lab_server, page, brows
     assert {p: p.read_bytes() for p in files} == before, "a refused Record or Export changed a file"
     screenshot(page, "reopen-stale-refused")
     assert_no_cell_errors(page)
+    browser_log.assert_clean()
+
+
+def test_saved_notebook_reads_without_running_it(lab_server, page, browser_log):
+    """A reviewer opens a saved study notebook in JupyterLab and runs nothing: the panel's
+    saved snapshot shows the verdict, the findings and a figure; once the cells run, the
+    live panel takes its place and the snapshot is hidden."""
+    name = lab_server.copy_notebook(NOTEBOOKS / "3-rod-side-pressure.ipynb", "saved/3-rod-side-pressure.ipynb")
+    folder = lab_server.root_dir / "saved"
+    if not (folder / "designs").exists():
+        shutil.copytree(NOTEBOOKS / "designs", folder / "designs")
+    open_notebook(page, lab_server, name)
+    snapshot = page.locator(".jp-OutputArea-output .wb-snapshot").first
+    snapshot.wait_for(state="visible")
+    text = snapshot.inner_text()
+    assert "Whole axis" in text and "FAIL" in text and "Rod chamber pressure reaches" in text, text[:400]
+    assert "P-ROD-RATING" in text and "user's data sheet" in text
+    figure = snapshot.locator("img.wb-snapshot-figure").first
+    figure.wait_for(state="visible")
+    assert figure.evaluate("img => img.complete && img.naturalWidth > 200"), "the saved figure did not draw"
+    screenshot(page, "saved-notebook-without-kernel")
+    run_all_cells(page)
+    widget(page, "wb-study-rod-pressure").wait_for(state="visible")
+    wait_until(page, lambda: not snapshot.is_visible(), message="the snapshot stayed beside the live panel")
     browser_log.assert_clean()

@@ -89,9 +89,10 @@ def _verdict_rows(record: Record):
     """(level, breach, worst case, value, limit, margin, source, found by) of every fail and caution."""
     for item in record_verdict(record).items:
         unit = pretty_unit(item.unit)
+        case = "; ".join(p for p in (item.case, *item.remedies) if p)
         value = "" if item.value is None else f"{_num(item.value, 4)} {unit}".strip()
         limit = "" if item.limit is None else f"{_num(item.limit, 4)} {unit}".strip()
-        yield (item.level, item.text, item.case, value, limit,
+        yield (item.level, item.text, case, value, limit,
                "" if item.margin is None else margin_text(item.margin), item.source, item.found_by)
 
 
@@ -288,9 +289,15 @@ def _study_html(n: int, key: str, study: Study) -> str:
                    + "".join(f"<div>{_table(['Result', 'Value'], part, num_cols=(1,))}</div>"
                              for part in (rows[:half], rows[half:]) if part) + "</div>")
     if study.findings:
+        flagged = [f for f in study.findings if f["level"] != "pass"]
+        passed = [f for f in study.findings if f["level"] == "pass"]
         out.append("<h3>Checks of this study</h3>")
+        if flagged:
+            out.append('<p class="meta">Fails and cautions, in the verdict above with their worst case: '
+                       + ", ".join(f"{_level_html(f['level'])} <code>{_esc(f['rule_id'])}</code>" for f in flagged)
+                       + ". The checks that pass:</p>")
         rows, classes = [], []
-        for f in study.findings:
+        for f in passed:
             unit = _esc(pretty_unit(f["unit"]))
             # the worst case of a fail or caution is in the verdict above; a pass needs none
             statement = f'<span title="{_esc(f["detail"])}">{_esc(f["statement"])}</span>' if f["detail"] \
@@ -299,10 +306,11 @@ def _study_html(n: int, key: str, study: Study) -> str:
                          f"{_esc(_num(f['value'], 4))} {unit}".strip() if f["value"] is not None else "",
                          f"{_esc(_num(f['limit'], 4))} {unit}".strip() if f["limit"] is not None else "",
                          _esc(margin_text(f["margin"]) if f["margin"] is not None else ""),
-                         _source_html(f["source"], 32)])
+                         f'<span class="meta">{_esc(f["source"])}</span>'])
             classes.append(f"row-{f['level']}")
-        out.append(_table(["Level", "Check", "Value", "Limit", "Margin", "Source"], rows,
-                          num_cols=(2, 3, 4), row_classes=classes))
+        if rows:
+            out.append(_table(["Level", "Check", "Value", "Limit", "Margin", "Source"], rows,
+                              num_cols=(2, 3, 4), row_classes=classes))
     if study.figures:
         out.append('<div class="figures">')
         for fig in study.figures.values():
@@ -325,8 +333,8 @@ def to_html(record: Record) -> str:
     vrows, vclasses = [], []
     for lvl, text, case, value, limit, margin, source, found in _verdict_rows(record):
         breach = _esc(text) + (f'<br><span class="meta">{_esc(case)}</span>' if case else "")
-        vrows.append([_level_html(lvl), breach, _esc(value), _esc(limit), _esc(margin), _source_html(source),
-                      _esc(found)])
+        vrows.append([_level_html(lvl), breach, _esc(value), _esc(limit), _esc(margin),
+                      f'<span class="meta">{_esc(source)}</span>', f'<span class="meta">{_esc(found)}</span>'])
         vclasses.append(f"row-{lvl}")
     verdict_html = ['<section class="verdict" id="verdict"><h2>Verdict of the axis</h2>',
                     f'<p class="summary">Findings: {summary}</p>',

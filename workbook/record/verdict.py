@@ -157,6 +157,7 @@ class VerdictItem:
     source: str
     rule_ids: tuple           # every rule that found it, first the one whose words are shown
     studies: tuple            # every study that found it
+    remedies: tuple = ()      # what a study proposes to change (its remedy findings' words)
 
     @property
     def found_by(self) -> str:
@@ -164,8 +165,9 @@ class VerdictItem:
         return ", ".join(f"{s} ({r})" for s, r in zip(self.studies, self.rule_ids))
 
     def to_line(self) -> str:
-        """One plain-text line: level, breach, case, source, who found it."""
+        """One plain-text line: level, breach, case, remedy, source, who found it."""
         case = f"; {self.case}" if self.case else ""
+        case += "".join(f"; {r}" for r in self.remedies)
         margin = "" if self.margin is None else f"; margin {margin_text(self.margin)}"
         return (f"{self.level.upper():<8} {self.text}{margin}{case} [source: {self.source}; "
                 f"found by {self.found_by}]")
@@ -251,11 +253,14 @@ def verdict(findings_by_study: Mapping[str, Iterable[Mapping]], incomplete: Iter
         if f0["level"] == "pass":
             continue
         margins = [f["margin"] for _, f in members if f.get("margin") is not None]
+        sources = list(dict.fromkeys(f.get("source", "") for _, f in members if f.get("source")))
+        remedies = tuple(dict.fromkeys(f["statement"] for _, f in members[1:]
+                                       if f["rule_id"].endswith("-REMEDY")))
         items.append(VerdictItem(
             level=f0["level"], text=breach_text(f0), case=worst_case(f0), value=f0.get("value"),
             limit=f0.get("limit"), unit=f0.get("unit", ""), margin=min(margins) if margins else None,
-            source=f0.get("source", ""), rule_ids=tuple(f["rule_id"] for _, f in members),
-            studies=tuple(s for s, _ in members)))
+            source="; ".join(sources), rule_ids=tuple(f["rule_id"] for _, f in members),
+            studies=tuple(s for s, _ in members), remedies=remedies))
     items.sort(key=lambda i: LEVELS.index(i.level))
     return Verdict(tuple(items), counts, counts["pass"], tuple(incomplete))
 

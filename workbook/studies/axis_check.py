@@ -55,7 +55,7 @@ def run(values) -> Outcome:
     closed = solve(axis, loads, axis.temp_min, opening=0.0) if axis.arrangement != "bleed-off" else None
     res = {
         "pump_flow": result("Pump flow", axis.supply.flow, "flow", "L/min"),
-        "area_ratio": {"value": axis.cylinder.phi, "unit": "", "label": "Area ratio A1/A3"},
+        "area_ratio": {"value": axis.cylinder.phi, "unit": "", "label": "Area ratio φ (cap area / annulus area)"},
         "speed_min": result(f"Slowest {axis.controlled} speed over load cases and temperatures",
                             float(np.min(sol.speed)), "velocity", "mm/s"),
         "speed_max": result(f"Fastest {axis.controlled} speed over load cases and temperatures",

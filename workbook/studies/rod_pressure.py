@@ -159,7 +159,7 @@ def run(values) -> Outcome:
     }
     lowest_name = min(ratings, key=ratings.get)
     lowest = ratings[lowest_name]
-    res = {"area_ratio": {"value": axis.cylinder.phi, "unit": "", "label": "Area ratio A1/A3"}}
+    res = {"area_ratio": {"value": axis.cylinder.phi, "unit": "", "label": "Area ratio φ (cap area / annulus area)"}}
     findings = []
     for case, (p1, p3, regimes) in solved.items():
         for chamber, p in (("cap", p1), ("rod", p3)):

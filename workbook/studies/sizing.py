@@ -119,8 +119,10 @@ def run(values) -> Outcome:
         "throttle_reynolds": ratio_result("Throttle Reynolds number", float(throttle_size.state.reynolds)),
     }
     if not needle_problem:
+        # the needle as a restriction first (its open area and lift), its spindle turns second
+        res["needle_area"] = result("Needle open flow area", float(needle.area), "area", "mm**2")
         res["needle_lift"] = result("Needle lift", float(lift.lift), "length", "mm")
-        res["needle_turns"] = {"value": turns, "unit": "turns", "label": "Needle opening"}
+        res["needle_turns"] = {"value": turns, "unit": "turns", "label": "Needle spindle turns for that lift"}
     findings = []
     if needle_problem:
         chosen = fv["kind"] == "needle"

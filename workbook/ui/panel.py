@@ -30,6 +30,7 @@ True
 
 from __future__ import annotations
 
+import base64
 import copy
 import html
 import os
@@ -248,8 +249,12 @@ class StudyPanel:
         parts.append(results_html(self.outcome.results))
         parts.append(findings_html(self.outcome.findings, title=f"Checks of this study ({self.study.TITLE})"))
         for fig in figures_for_record(self.outcome.figures).values():
+            # an image of the SVG: a notebook opened without trust keeps images but strips inline
+            # SVG, and the image is one line of the saved file
+            data = base64.b64encode(line_chart(fig).encode("utf-8")).decode("ascii")
             parts.append(f"<figure style='margin:6px 0'><figcaption><b>{html.escape(fig['title'])}</b></figcaption>"
-                         f"{line_chart(fig)}</figure>")
+                         f"<img class='wb-snapshot-figure' alt='{html.escape(fig['title'], quote=True)}' "
+                         f"style='max-width:100%' src='data:image/svg+xml;base64,{data}'></figure>")
         parts.append("</div>")
         # a table row or a drawn element a line: a changed input moves a few lines of the saved
         # notebook, not one long line

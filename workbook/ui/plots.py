@@ -45,7 +45,7 @@ class LivePlot:
 
     def __init__(self, title: str, x_label: str, x_unit: str, y_label: str, y_unit: str,
                  series: Sequence[str], limits: Sequence[str] = (), normal_regime: str | None = None,
-                 width: int = 860, height: int = 340):
+                 width: int = 1040, height: int = 340):
         from bokeh.models import BoxAnnotation, ColumnDataSource, HoverTool, Label, Legend, Span
         from bokeh.plotting import figure
 
@@ -54,7 +54,7 @@ class LivePlot:
         self.normal_regime = normal_regime
         fig = figure(title=title, width=width, height=height, tools="pan,box_zoom,wheel_zoom,reset,save",
                      x_axis_label=f"{x_label} [{x_unit}]", y_axis_label=f"{y_label} [{y_unit}]",
-                     toolbar_location="above")
+                     toolbar_location="below")   # never over a long title
         fig.title.text_font_size = "12pt"
         self.sources = {}
         items = []
@@ -76,8 +76,10 @@ class LivePlot:
             span = Span(location=0, dimension="width", line_color=LIMIT_COLOUR, line_dash="dashed",
                         line_width=1.5, visible=False)
             fig.add_layout(span)
+            # on a white box, so a curve under the label never hides it
             label = Label(x=0, y=0, text=name, text_font_size="9pt", text_color=LIMIT_COLOUR,
-                          text_align="right", text_baseline="bottom", visible=False)
+                          text_align="right", text_baseline="bottom", visible=False,
+                          background_fill_color="white", background_fill_alpha=0.85)
             fig.add_layout(label)
             self.limit_spans[name] = span
             self.limit_labels[name] = label

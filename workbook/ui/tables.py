@@ -131,6 +131,8 @@ def verdict_html(v, title: str = "Whole axis") -> str:
     for item in v.items:
         case = (f"<br><span style='color:#555;font-size:90%'>{html.escape(item.case)}</span>"
                 if item.case else "")
+        case += "".join(f"<br><span style='color:#1d3f5c;font-size:90%'>{html.escape(r)}</span>"
+                        for r in item.remedies)
         rows.append(
             f"<tr class='wb-verdict-item wb-level-{item.level}' data-rules='{html.escape(' '.join(item.rule_ids))}'>"
             f"<td style='{LEVEL_STYLE.get(item.level, '')};white-space:nowrap;padding:2px 6px;text-align:left'>"
