@@ -56,6 +56,12 @@ def test_saved_notebook_reads_as_a_design_record_without_a_kernel(name, tmp_path
     saved = _snapshot(nb)
     page, _ = HTMLExporter().from_notebook_node(nb)       # no kernel runs here
     assert "wb-snapshot" in page and "data:image/svg+xml;base64," in page
+    # each saved figure is a standalone SVG document (an image needs its namespace)
+    import base64
+
+    for data in re.findall(r"data:image/svg\+xml;base64,([A-Za-z0-9+/=]+)", saved):
+        svg = base64.b64decode(data).decode("utf-8")
+        assert svg.startswith('<svg xmlns="http://www.w3.org/2000/svg"') and svg.rstrip().endswith("</svg>")
     assert html.escape(CAUTION) in page or CAUTION in page
     # the same verdict and findings the live panel shows for the demo, now
     monkeypatch.setenv("WORKBOOK_RECORDS_DIR", str(tmp_path / "records"))

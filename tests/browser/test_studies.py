@@ -371,7 +371,8 @@ def test_saved_notebook_reads_without_running_it(lab_server, page, browser_log):
     assert "P-ROD-RATING" in text and "user's data sheet" in text
     figure = snapshot.locator("img.wb-snapshot-figure").first
     figure.wait_for(state="visible")
-    assert figure.evaluate("img => img.complete && img.naturalWidth > 200"), "the saved figure did not draw"
+    wait_until(page, lambda: figure.evaluate("img => img.complete && img.naturalWidth > 200"),
+               message="the saved figure did not draw")
     screenshot(page, "saved-notebook-without-kernel")
     run_all_cells(page)
     widget(page, "wb-study-rod-pressure").wait_for(state="visible")

@@ -251,7 +251,9 @@ class StudyPanel:
         for fig in figures_for_record(self.outcome.figures).values():
             # an image of the SVG: a notebook opened without trust keeps images but strips inline
             # SVG, and the image is one line of the saved file
-            data = base64.b64encode(line_chart(fig).encode("utf-8")).decode("ascii")
+            svg = line_chart(fig).replace("<svg ", '<svg xmlns="http://www.w3.org/2000/svg" '
+                                                   'font-family="DejaVu Sans, Helvetica, Arial, sans-serif" ', 1)
+            data = base64.b64encode(svg.encode("utf-8")).decode("ascii")
             parts.append(f"<figure style='margin:6px 0'><figcaption><b>{html.escape(fig['title'])}</b></figcaption>"
                          f"<img class='wb-snapshot-figure' alt='{html.escape(fig['title'], quote=True)}' "
                          f"style='max-width:100%' src='data:image/svg+xml;base64,{data}'></figure>")

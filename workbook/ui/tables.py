@@ -97,7 +97,7 @@ def findings_html(findings: Iterable[Mapping], title: str = "Checks") -> str:
             f"<tr class='wb-finding wb-level-{lvl}'>"
             f"<td style='{LEVEL_STYLE.get(lvl, '')};{_CELL};white-space:nowrap'>{LEVEL_MARK.get(lvl, lvl)}</td>"
             f"<td style='{_CELL};white-space:nowrap'><code>{html.escape(str(f.get('rule_id', '')))}</code></td>"
-            f"<td style='{_CELL}'>{html.escape(str(f.get('statement', '')))}"
+            f"<td style='{_CELL};min-width:22em'>{html.escape(str(f.get('statement', '')))}"
             + (f"<br><span style='color:#555;font-size:92%'>{html.escape(pretty_unit(str(f['detail'])))}</span>"
                if f.get("detail") else "")
             + "</td>"
