@@ -45,7 +45,7 @@ class LivePlot:
 
     def __init__(self, title: str, x_label: str, x_unit: str, y_label: str, y_unit: str,
                  series: Sequence[str], limits: Sequence[str] = (), normal_regime: str | None = None,
-                 width: int = 1040, height: int = 340):
+                 width: int = 900, height: int = 340):
         from bokeh.models import BoxAnnotation, ColumnDataSource, HoverTool, Label, Legend, Span
         from bokeh.plotting import figure
 
