@@ -88,7 +88,8 @@ class RecordDiff:
                     or self.levels or self.figures or self.notes_added or self.notes_removed)
 
     def to_text(self) -> str:
-        """A readable summary, one change a line."""
+        """A readable summary, one change a line: identity, studies, inputs, then the findings
+        whose level moved (what a reviewer reads first), then results, figures and notes."""
         old_v, new_v = self.library_versions
         lines = []
         if old_v != new_v:
@@ -108,14 +109,14 @@ class RecordDiff:
             where = f"[{c.study}] " if c.study else ""
             lines.append(f"{where}input {c.section}.{c.field} ({label}): "
                          f"{_show(c.old, c.old_unit)} -> {_show(c.new, c.new_unit)}")
+        for c in self.levels:
+            what = f"{c.rule_id}" + (f" ({c.quantity})" if c.quantity else "")
+            lines.append(f"[{c.study}] finding {what}: {(c.old or 'absent').upper()} -> {(c.new or 'absent').upper()}")
         for c in self.results:
             rel = c.relative
             how = f" ({rel * 100:+.3g} %)" if rel is not None else (" (from zero)" if c.old == 0 else "")
             lines.append(f"[{c.study}] result {c.name} ({c.label}): {_show(c.old, c.unit)} -> "
                          f"{_show(c.new, c.unit)}{how}")
-        for c in self.levels:
-            what = f"{c.rule_id}" + (f" ({c.quantity})" if c.quantity else "")
-            lines.append(f"[{c.study}] finding {what}: {(c.old or 'absent').upper()} -> {(c.new or 'absent').upper()}")
         for study, name, how in self.figures:
             lines.append(f"[{study}] figure {name} {how}")
         for study, text in self.notes_added:
