@@ -157,3 +157,4 @@ def page(browser, browser_log, request):
             request.getfixturevalue("lab_server").shutdown_kernels()
     if request.node.get_closest_marker("allow_offsite") is None:
         browser_log.assert_offline()
+
