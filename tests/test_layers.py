@@ -21,7 +21,7 @@ RANK = {
     "ui": 8,
     "tools": 9,
     "cli": 9, "__main__": 9,
-    "cycle": 3, "cycle_file": 7,
+    "cycle": 3, "cycle_file": 7, "transient": 3,
 }
 PHYSICS = {"fluid", "restrictor", "cylinder", "supply", "valve", "circuit"}
 
