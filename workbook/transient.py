@@ -79,7 +79,7 @@ from .circuit import G_STANDARD, Axis, chamber_modulus
 from .errors import InputError
 from .fluid import P_ATM
 from .restrictor import SharpOrifice
-from .valve import CounterbalanceValve
+from .valve import CounterbalanceValve, check_opening
 
 _BAR = 1e5
 MOVES = ("extend", "retract", "stop")
@@ -177,7 +177,8 @@ class Model:
     running, from memory); ``viscous`` N·s/m; ``holding_lag`` s; ``modulus`` a constant
     effective modulus (Pa) or None for :func:`workbook.circuit.chamber_modulus`;
     ``dv_drop`` Pa, the directional valve's drop at the pump flow fully open;
-    ``body_volume``, ``supply_volume``, ``port_volume`` m³; ``k_stop`` N/m.
+    ``body_volume``, ``supply_volume``, ``port_volume`` m³; ``k_stop`` N/m; ``opening`` the
+    flow valve's opening factor in [0, 1] (as in :func:`workbook.circuit.solve`).
     """
 
     def __init__(self, axis: Axis, load_x=(0.0,), load_f=(0.0,), temperature: float | None = None,
@@ -185,8 +186,9 @@ class Model:
                  holding_lag: float = HOLDING_LAG_DEFAULT, modulus: float | None = None,
                  dv_drop: float = 0.05 * _BAR, body_volume: float = 2e-5, supply_volume: float | None = None,
                  port_volume: float = 1e-5, k_stop: float = 2e8, cavity_abs: float = 0.02 * _BAR,
-                 v_smooth: float = 1e-3, stribeck: float = 5e-3):
+                 v_smooth: float = 1e-3, stribeck: float = 5e-3, opening: float = 1.0):
         self.axis = axis
+        self.opening = check_opening(opening)
         c = self.cyl = axis.cylinder
         self.m = _positive("operation.mass", axis.mass, "a moving mass greater than 0 kg (the motion needs it)")
         self.lag = _positive("motion.holding_lag", holding_lag, "a time constant greater than 0 s")
@@ -347,12 +349,12 @@ class Model:
                 if inlet:
                     q[0] -= qd
             if d["bleed"]:
-                qb = float(ax.flow_valve.forward_flow(p[port] - pt, self.rho, self.mu))
+                qb = float(ax.flow_valve.forward_flow(p[port] - pt, self.rho, self.mu, self.opening))
                 q[port] -= qb
             if d["fv"]:
                 # forward towards the chamber (meter-in) or from it towards the tank (meter-out)
                 a_, b_ = (port, d["line"]) if ax.arrangement == "meter-in" else (d["line"], port)
-                qf = float(ax.flow_valve.flow(p[a_] - p[b_], self.rho, self.mu))
+                qf = float(ax.flow_valve.flow(p[a_] - p[b_], self.rho, self.mu, self.opening))
                 q[a_] -= qf
                 q[b_] += qf
             if d["hv"]:
