@@ -9,7 +9,7 @@ BIN    := $(VENV)/bin
 STAMP  := $(VENV)/.installed-stamp
 PORT   ?= 8888
 
-.PHONY: lab test test-fast bench refresh-notebooks clean-venv
+.PHONY: lab test test-fast bench refresh-notebooks mutation clean-venv
 
 $(STAMP): pyproject.toml
 	$(PYTHON) -m venv $(VENV)
@@ -34,6 +34,18 @@ bench: $(STAMP)
 
 refresh-notebooks: $(STAMP)
 	$(BIN)/python -m workbook.tools.notebooks refresh notebooks
+
+# Mutation testing (not part of `make test`: it runs the fast tests once per mutant). mutmut 2
+# edits the files it mutates, so it runs on a copy of the tree in $(MUTATION_DIR); the
+# configuration is [tool.mutmut] in pyproject.toml. MUTATION_PATCH=<file> limits the run to
+# the lines of a patch. Survivors judged harmless are listed in tests/mutation-equivalent.txt.
+MUTATION_DIR ?= /tmp/axisbook-mutation
+mutation: $(STAMP)
+	rm -rf $(MUTATION_DIR) && mkdir -p $(MUTATION_DIR)
+	cp -r workbook tests pyproject.toml $(MUTATION_DIR)/
+	cd $(MUTATION_DIR) && PATH=$(abspath $(BIN)):$$PATH $(abspath $(BIN))/mutmut run --no-progress \
+		$(if $(MUTATION_PATCH),--use-patch-file $(abspath $(MUTATION_PATCH))) || true
+	cd $(MUTATION_DIR) && $(abspath $(BIN))/mutmut results
 
 clean-venv:
 	rm -rf $(VENV)
