@@ -21,7 +21,7 @@ def _finding(**over):
 
 def _record(where: str, level: str = "fail", detail: str = "a plain detail") -> Record:
     h = HOSTILE
-    finding = _finding(level=level, detail=detail, **({where.split(".", 1)[1]: h} if where.startswith("finding.") else {}))
+    finding = _finding(**{"level": level, "detail": detail, **({where.split(".", 1)[1]: h} if where.startswith("finding.") else {})})
     results = {"p1": {"value": 17.9, "unit": h if where == "result.unit" else "bar",
                       "label": h if where == "result.label" else "cap pressure"}}
     fig = {"title": h if where == "figure.title" else "speed", "x_label": "load [kN]", "y_label": "speed [mm/s]",
