@@ -9,7 +9,7 @@ BIN    := $(VENV)/bin
 STAMP  := $(VENV)/.installed-stamp
 PORT   ?= 8888
 
-.PHONY: lab test test-fast bench refresh-notebooks mutation clean-venv
+.PHONY: lab test test-fast bench refresh-notebooks demo-records mutation clean-venv
 
 $(STAMP): pyproject.toml
 	$(PYTHON) -m venv $(VENV)
@@ -34,6 +34,12 @@ bench: $(STAMP)
 
 refresh-notebooks: $(STAMP)
 	$(BIN)/python -m workbook.tools.notebooks refresh notebooks
+
+# The demo's design records (revisions A and B of the bin tipper), committed under
+# notebooks/records/ as a design team commits its own. Revision A fails its tip axis (exit 1).
+demo-records: $(STAMP)
+	$(BIN)/axisbook evaluate notebooks/designs/bin-tipper.toml --out notebooks/records || [ $$? -eq 1 ]
+	$(BIN)/axisbook evaluate notebooks/designs/bin-tipper-rev-b.toml --out notebooks/records
 
 # Mutation testing (not part of `make test`: it runs the fast tests once per mutant). mutmut 2
 # edits the files it mutates, so it runs on a copy of the tree in $(MUTATION_DIR); the

@@ -326,7 +326,8 @@ def _loads(text: str, name: str, allowed_file: str) -> Record:
         document = json.loads(text, object_pairs_hook=_no_duplicates, parse_constant=_no_constant,
                               parse_float=_finite_float, parse_int=_bounded_int)
     except json.JSONDecodeError as exc:
-        if exc.pos >= len(text.rstrip()):
+        if exc.pos >= len(text.rstrip()) or (exc.msg.startswith("Unterminated string")
+                                             and '"' not in text[exc.pos + 1:]):
             given = f"a file that ends early at line {exc.lineno} (truncated or damaged)"
         else:
             given = f"text that is not JSON: {exc.msg} at line {exc.lineno}, column {exc.colno}"
