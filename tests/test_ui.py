@@ -11,6 +11,7 @@ from pathlib import Path
 import pytest
 
 from workbook import CAUTION, studies
+from workbook.errors import InputError
 from workbook.design import load_design
 from workbook.record import load
 from workbook.ui import open_study
@@ -65,7 +66,7 @@ def test_each_study_updates_keeps_last_result_on_bad_entry_and_records(workdir, 
     assert panel.stale
     assert json.dumps(panel.outcome.results, sort_keys=True) == after
     assert "Out of date" in panel.results_box.widget.value
-    with pytest.raises(Exception):
+    with pytest.raises(InputError):
         panel.record()  # out-of-date results are never recorded
     assert panel.set(field, good)
     assert not panel.stale
@@ -137,7 +138,7 @@ def test_opening_a_design_that_differs_from_its_record_says_so_and_applies_nothi
 def test_record_and_export_are_refused_while_stale_and_no_file_changes(workdir):
     design = workdir / "designs" / "bin-tipper.toml"
     panel = open_study("rod-pressure", design, axis="tip")
-    with pytest.raises(Exception) as info:
+    with pytest.raises(InputError) as info:
         panel.export()
     assert "press Record study first" in str(info.value)
     panel.record()
@@ -145,7 +146,7 @@ def test_record_and_export_are_refused_while_stale_and_no_file_changes(workdir):
     files = {p: p.read_bytes() for p in (panel.record_path, panel.export_path, design)}
     assert not panel.set("cylinder.bore", "-3 mm")
     for action in (panel.record, panel.export):
-        with pytest.raises(Exception) as info:
+        with pytest.raises(InputError) as info:
             action()
         assert "out-of-date results" in str(info.value)
     # the buttons say why, at the button
@@ -156,7 +157,7 @@ def test_record_and_export_are_refused_while_stale_and_no_file_changes(workdir):
     assert {p: p.read_bytes() for p in files} == files
     # a valid change that is not recorded yet: export refuses to show the old design as this one
     assert panel.set("cylinder.bore", "70 mm")
-    with pytest.raises(Exception) as info:
+    with pytest.raises(InputError) as info:
         panel.export()
     assert "press Record study first" in str(info.value)
     assert {p: p.read_bytes() for p in files} == files

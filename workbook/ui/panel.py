@@ -466,10 +466,9 @@ class StudyPanel:
             raise InputError("record file", "none", "a panel opened with a record path")
         self._refuse_if_stale("Record")
         existing = self._current_record()   # a damaged record refuses here: nothing is lost
-        ev = evaluate(self.values, self.kinds)
-        if ev.refused:
-            kind, exc = next(iter(ev.refused.items()))
-            raise InputError("Record", f"inputs the {kind} study refuses ({exc})", "inputs every study accepts")
+        # the evaluation behind the results on screen: every study already ran on these inputs
+        # (every entry recomputes it; a stale or refused one was turned away just above)
+        ev = self.evaluation
         note = self.note.value.strip()
         study_notes = {k: list(s.notes) for k, s in (existing.studies.items() if existing else ())}
         if note:
