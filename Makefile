@@ -9,7 +9,7 @@ BIN    := $(VENV)/bin
 STAMP  := $(VENV)/.installed-stamp
 PORT   ?= 8888
 
-.PHONY: lab test test-fast bench refresh-notebooks demo-records mutation clean-venv
+.PHONY: lab test test-fast fuzz bench refresh-notebooks demo-records mutation clean-venv
 
 $(STAMP): pyproject.toml
 	$(PYTHON) -m venv $(VENV)
@@ -28,6 +28,11 @@ test: $(STAMP)
 
 test-fast: $(STAMP)
 	$(BIN)/python -m pytest workbook tests -m "not browser"
+
+# the long fuzz profile of tests/test_fuzz.py (a nightly or manual run; the counts go to fuzz-stats.json)
+fuzz: $(STAMP)
+	WORKBOOK_FUZZ=long WORKBOOK_KILL_ROUNDS=400 WORKBOOK_FUZZ_STATS=fuzz-stats.json \
+		$(BIN)/python -m pytest tests/test_fuzz.py tests/test_hardening.py -p no:cacheprovider -q
 
 bench: $(STAMP)
 	$(BIN)/python benchmarks/run.py

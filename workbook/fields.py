@@ -121,8 +121,12 @@ class Field:
         return words
 
     def _bounds_si(self, dim: str):
+        cached = self.__dict__.get("_bounds_cache")
+        if cached is not None and cached[0] == dim:
+            return cached[1]
         lo = None if self.low is None else units.to_si(self.low, dim, self.key, self.unit)
         hi = None if self.high is None else units.to_si(self.high, dim, self.key, self.unit)
+        object.__setattr__(self, "_bounds_cache", (dim, (lo, hi)))  # the field is frozen: its bounds too
         return lo, hi
 
     def _parse_one(self, value: Any, dim: str) -> float:

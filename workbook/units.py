@@ -194,6 +194,12 @@ def unit_problem(unit: str) -> str | None:
     return None
 
 
+@lru_cache(maxsize=1024)
+def _parsed_unit(unit: str):
+    """The pint unit of ``unit`` text, parsed once (pint's parser costs more than the arithmetic)."""
+    return registry().Unit(unit)
+
+
 def _quantity_of(number, unit: str, field: str, shown: Any, allowed: str):
     """``Quantity(number, unit)`` after :func:`unit_problem`; every pint error as InputError."""
     reg = registry()
@@ -202,7 +208,7 @@ def _quantity_of(number, unit: str, field: str, shown: Any, allowed: str):
         raise InputError(field, shown, f"{allowed} ({problem})")
     unit = _clean_unit(unit)
     try:
-        return reg.Quantity(number, unit)
+        return reg.Quantity(number, _parsed_unit(unit))
     except Exception as exc:  # noqa: BLE001 - pint raises several types (UndefinedUnitError, TokenError, ...)
         raise InputError(field, shown, allowed + f" ('{unit}' is not a unit known here)") from exc
 
