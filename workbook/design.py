@@ -71,7 +71,7 @@ from .inputs import AXIS_SECTIONS, IDENTITY
 _MACHINE_RENAME = {"machine": "name"}
 #: top-level tables of a design file
 TOP_LEVEL = ("machine", "defaults", "axes", "cycle")
-_BARE_NUMBER = re.compile(r"^\s*[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?\s*$")
+_BARE_NUMBER = re.compile(r"^\s*[-+]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?\s*$")
 _BARE_KEY = re.compile(r"^[A-Za-z0-9_-]+$")
 #: an axis key becomes part of a file name: letters, digits, "-" and "_", at most 64
 SAFE_AXIS_KEY = re.compile(r"^[A-Za-z0-9][A-Za-z0-9_-]{0,63}$")
@@ -386,7 +386,9 @@ class _Parser:
         try:
             return f.parse(raw)
         except InputError as exc:
-            given = repr(raw) if isinstance(raw, str) and exc.given in (raw, repr(raw)) else exc.given
+            # the error echoes an excerpt; give fail() the whole text so it counts every character
+            echoed = isinstance(raw, str) and (exc.given in (raw, repr(raw)) or exc.given.startswith(repr(raw)[:40]))
+            given = repr(raw) if echoed else exc.given
             self.fail(parts, given, exc.allowed)
 
 

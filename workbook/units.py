@@ -104,7 +104,7 @@ EXAMPLES: dict[str, str] = {
     "dimensionless": "0.61, 3",
 }
 
-_NUMBER = re.compile(r"^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(.*?)\s*$")
+_NUMBER = re.compile(r"^\s*([-+]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?)\s*(.*?)\s*$")
 _ALIASES = {
     "°C": "degC",
     "°F": "degF",
@@ -153,7 +153,7 @@ MAX_TEXT = 80
 #: the largest exponent magnitude of a unit power (``mm**3``, ``m**-1``)
 MAX_EXPONENT = 12
 _POWER = re.compile(r"(\*\*|\^)\s*")
-_EXPONENT = re.compile(r"[-+]?\s*(?:\d+\.?\d*|\.\d+)")
+_EXPONENT = re.compile(r"[-+]?\s*(?:\d+(?:\.\d*)?|\.\d+)")
 #: units a dimensionless field accepts: a plain number or a percentage, never an angle
 DIMENSIONLESS_UNITS = ("dimensionless", "percent")
 
