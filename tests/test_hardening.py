@@ -33,6 +33,8 @@ from workbook.record.errors import RecordError
 from workbook.record.svg import line_chart, nice_ticks
 
 ROOT = Path(__file__).resolve().parents[1]
+# a hang is one of the defects under test: each case fails after a minute instead of stalling CI
+pytestmark = pytest.mark.timeout(60)
 SMALL = """\
 [machine]
 name = "BT-2 bin tipper"
