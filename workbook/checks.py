@@ -28,13 +28,13 @@ import numpy as np
 from . import CAUTION
 from .circuit import (CLOSED, DRIVEN_BACK, HELD, RUNAWAY, STALLED, STARVED, UNCONTROLLED, Axis, Solution, solve)
 from .errors import InputError
+from .constants import BAR as _BAR, T0_C, TO_LPM
 from .fluid import P_ATM
 from .inputs import LIMITS
 from .supply import OVERALL_EFFICIENCY_DEFAULT
 from .valve import BackPressureValve, CompensatedFlowValve, CounterbalanceValve
 
 LEVELS = ("fail", "caution", "pass")
-_BAR = 1e5
 
 #: default overall efficiency of the pump (from memory); the design's own is ``supply.overall_efficiency``
 PUMP_OVERALL_EFFICIENCY = OVERALL_EFFICIENCY_DEFAULT
@@ -114,7 +114,7 @@ class _Context:
             val = float(arr[idx])
             if best is None or (val > best[0] if fn is np.max else val < best[0]):
                 where = (f"{d}, valve {'closed' if o == 0.0 else 'open'}, load {float(s.load[idx]) / 1e3:g} kN, "
-                         f"oil {float(s.temperature[idx]) - 273.15:.0f} degC, {s.regime[idx]}")
+                         f"oil {float(s.temperature[idx]) - T0_C:.0f} degC, {s.regime[idx]}")
                 best = (val, where)
         return best
 
@@ -150,7 +150,7 @@ def _runaway(ctx):
         tot += bad.size
         if bad.any() and not where:
             i = np.unravel_index(np.argmax(bad), bad.shape)
-            where = f"e.g. {d}, load {float(s.load[i]) / 1e3:g} kN, oil {float(s.temperature[i]) - 273.15:.0f} degC"
+            where = f"e.g. {d}, load {float(s.load[i]) / 1e3:g} kN, oil {float(s.temperature[i]) - T0_C:.0f} degC"
     return n / tot, 0.0, (f"{n} of {tot} points run away; {where}" if n else "no point runs away")
 
 
@@ -250,7 +250,7 @@ def _port_rule(side: str):
             if best is None or ratio[i] > best[0]:
                 best = (float(ratio[i]), float(v[i]), float(lim[i]),
                         f"{direction}, valve {'closed' if opening == 0.0 else 'open'}, load "
-                        f"{float(s.load[i]) / 1e3:g} kN, oil {float(s.temperature[i]) - 273.15:.0f} degC, "
+                        f"{float(s.load[i]) / 1e3:g} kN, oil {float(s.temperature[i]) - T0_C:.0f} degC, "
                         f"{s.regime[i]}, {'feeding' if into[i] else 'draining'} the {side} side")
         _, v, lim, where = best
         return v, lim, (f"mean velocity in the {side} line, bore {d * 1e3:g} mm, at: {where}; limit of a "
@@ -268,7 +268,7 @@ def _suction(ctx):
     q = ctx.axis.supply.suction_flow
     return q / (math.pi * d * d / 4.0), ctx.limits["v_suction"], (
         f"mean velocity in the suction line, bore {d * 1e3:g} mm, at the geometric pump flow "
-        f"{q * 6e4:.4g} L/min (displacement x speed; leakage taken to a case drain)")
+        f"{q * TO_LPM:.4g} L/min (displacement x speed; leakage taken to a case drain)")
 
 
 def _speed(ctx):
@@ -279,7 +279,7 @@ def _speed(ctx):
     dev = np.abs(s.speed - a.target_speed) / a.target_speed
     i = np.unravel_index(np.argmax(dev), dev.shape)
     detail = (f"worst speed {float(s.speed[i]) * 1e3:.1f} mm/s against target {a.target_speed * 1e3:g} mm/s at "
-              f"load {float(s.load[i]) / 1e3:g} kN, oil {float(s.temperature[i]) - 273.15:.0f} degC ({s.regime[i]})")
+              f"load {float(s.load[i]) / 1e3:g} kN, oil {float(s.temperature[i]) - T0_C:.0f} degC ({s.regime[i]})")
     loose = np.isin(s.regime, UNCONTROLLED)
     if loose.any():
         # the speed of a load that runs away is only a lower bound: the check cannot pass on it

@@ -104,13 +104,13 @@ import numpy as np
 
 from .cylinder import Cylinder
 from .errors import InputError
+from .constants import BAR as _BAR, G_STANDARD, LPM as _LPM, T0_C
+from .numerics import solve_increasing
 from .fluid import P_ATM, Oil, effective_bulk_modulus, tube_modulus
 from .supply import Supply
 from .valve import (CB_OPEN_GRADIENT_DEFAULT, CHECK_GRADIENT_DEFAULT, BackPressureValve, CheckValve, CompensatedFlowValve,
                     CounterbalanceValve, RestrictorValve, check_opening)
 
-_BAR = 1e5
-_LPM = 1.0 / 60000.0
 
 ARRANGEMENTS = ("meter-in", "meter-out", "bleed-off")
 DIRECTIONS = ("extend", "retract")
@@ -219,8 +219,8 @@ class Axis:
             raise InputError("loads", self.loads, "a list of finite forces")
         object.__setattr__(self, "loads", loads)
         if self.temp_max < self.temp_min:
-            raise InputError("temp_max", f"{self.temp_max - 273.15:g} degC",
-                             f"a temperature at least the cold temperature ({self.temp_min - 273.15:g} degC)")
+            raise InputError("temp_max", f"{self.temp_max - T0_C:g} degC",
+                             f"a temperature at least the cold temperature ({self.temp_min - T0_C:g} degC)")
         self.oil.check_temperature(self.temp_min, "temp_min")
         self.oil.check_temperature(self.temp_max, "temp_max")
         if self.tank_pressure >= self.supply.relief.cracking:
@@ -316,55 +316,6 @@ class Solution:
     def q_valve(self) -> np.ndarray:
         """Alias of ``q_flow_valve``."""
         return self.q_flow_valve
-
-
-# --------------------------------------------------------------------------- root finding
-def solve_increasing(fun: Callable[[np.ndarray], np.ndarray], lo, hi, xtol, ftol, maxiter: int = 200):
-    """Vectorised root of an increasing function with ``fun(lo) <= 0 <= fun(hi)``.
-
-    Regula falsi with the Illinois modification and a forced bisection every third
-    iteration (so the bracket at least halves every three steps); stops when every point
-    has ``|f| <= ftol`` or a bracket narrower than ``xtol``. All points are evaluated at
-    once; no per-point call.
-
-    >>> r = solve_increasing(lambda x: x**3 - np.array([8.0, 27.0]), np.zeros(2), np.full(2, 10.0), 1e-14, 1e-12)
-    >>> np.round(r, 12).tolist()
-    [2.0, 3.0]
-    """
-    a = np.array(lo, dtype=float, copy=True)
-    b = np.array(hi, dtype=float, copy=True)
-    fa = fun(a)
-    fb = fun(b)
-    x = np.where(fa >= 0.0, a, b)
-    done = (fa >= 0.0) | (fb <= 0.0) | (b - a <= xtol)
-    x = np.where(fa >= 0.0, a, np.where(fb <= 0.0, b, 0.5 * (a + b)))
-    last = np.zeros(a.shape, dtype=np.int8)
-    for it in range(maxiter):
-        if done.all():
-            break
-        if it % 3 == 2:
-            xn = 0.5 * (a + b)
-        else:
-            denom = fb - fa
-            with np.errstate(divide="ignore", invalid="ignore"):
-                xn = np.where(denom > 0.0, a - fa * (b - a) / np.where(denom > 0.0, denom, 1.0), 0.5 * (a + b))
-            bad = ~np.isfinite(xn) | (xn <= a) | (xn >= b)
-            xn = np.where(bad, 0.5 * (a + b), xn)
-        fx = fun(xn)
-        x = np.where(done, x, xn)
-        right = fx < 0.0                     # root lies right of xn
-        upd_a = ~done & right
-        upd_b = ~done & ~right
-        # Illinois: halve the stale end's value when the same end moves twice running
-        fb = np.where(upd_a & (last == 1), 0.5 * fb, fb)
-        fa = np.where(upd_b & (last == -1), 0.5 * fa, fa)
-        a = np.where(upd_a, xn, a)
-        fa = np.where(upd_a, fx, fa)
-        b = np.where(upd_b, xn, b)
-        fb = np.where(upd_b, fx, fb)
-        last = np.where(upd_a, 1, np.where(upd_b, -1, last)).astype(np.int8)
-        done = done | (np.abs(fx) <= ftol) | (b - a <= xtol)
-    return x
 
 
 # --------------------------------------------------------------------------- helpers
@@ -1079,9 +1030,6 @@ def _flow_valve_from_values(fv: Mapping, oil: Oil):
     raise InputError("flow_valve.kind", repr(kind), "one of 'orifice', 'throttle', 'needle', 'compensated'")
 
 
-#: standard acceleration of gravity, m/s² (CGPM 1901; NIST SP 811)
-G_STANDARD = 9.80665
-
 
 def design_loads(operation: Mapping) -> np.ndarray:
     """The load cases of the ``operation`` section with the moving mass's weight along the rod.
@@ -1128,7 +1076,7 @@ def axis_from_values(values: Mapping[str, Mapping]) -> Axis:
     except InputError as exc:
         if "." in exc.field or exc.field not in _QUALIFIED:
             raise
-        raise type(exc)(_QUALIFIED[exc.field], exc.given, exc.allowed) from None
+        raise exc.qualified(_QUALIFIED[exc.field]) from None
 
 
 def _axis_from_values(values: Mapping[str, Mapping]) -> Axis:

@@ -13,7 +13,9 @@ Exit codes (the same for every subcommand):
 * ``1``: a check did not pass (a finding is "fail"; the records differ; a result drifted);
 * ``2``: bad input or usage (a wrong design file, a damaged record, a missing file, an
   unknown option). The message is one line on stderr, ``axisbook: error: ...``, naming the
-  file, line and key where it can, and what is allowed; never a traceback.
+  file, line and key where it can, and what is allowed; never a traceback;
+* ``3``: an internal defect of the workbook (a result that is not finite, say), never
+  blamed on the input: please report it.
 
 >>> main(["evaluate", "no-such-design.toml"])
 2
@@ -30,13 +32,14 @@ from pathlib import Path
 from . import CAUTION, __version__, safetext
 
 PROG = "axisbook"
-EXIT_OK, EXIT_CHECK, EXIT_INPUT = 0, 1, 2
+EXIT_OK, EXIT_CHECK, EXIT_INPUT, EXIT_DEFECT = 0, 1, 2, 3
 
 EXIT_TEXT = """\
 exit codes:
   0  all is well
   1  a check did not pass (a failing finding, records that differ, a drifted result)
-  2  bad input or usage (the message names the file, line and key, and what is allowed)"""
+  2  bad input or usage (the message names the file, line and key, and what is allowed)
+  3  an internal defect of the workbook (please report it)"""
 
 _DESCRIPTIONS = {
     "top": (
@@ -432,7 +435,7 @@ def _main(argv=None) -> int:
     if getattr(args, "run", None) is None:
         parser.print_help()
         return EXIT_INPUT
-    from .errors import InputError
+    from .errors import InputError, InternalDefect
 
     try:
         try:
@@ -445,6 +448,9 @@ def _main(argv=None) -> int:
         return EXIT_OK
     except InputError as exc:  # includes DesignFileError and RecordError
         message = str(exc)
+    except InternalDefect as exc:
+        print(f"{PROG}: internal defect: {exc}", file=sys.stderr)
+        return EXIT_DEFECT
     except OSError as exc:
         message = _os_message(exc)
     print(f"{PROG}: error: {message}", file=sys.stderr)
@@ -463,4 +469,4 @@ def _quiet_stdout() -> None:
         pass
 
 
-__all__ = ["main", "build_parser", "finding_line", "axis_summary", "machine_summary", "wrap_lines", "EXIT_OK", "EXIT_CHECK", "EXIT_INPUT"]
+__all__ = ["main", "build_parser", "finding_line", "axis_summary", "machine_summary", "wrap_lines", "EXIT_OK", "EXIT_CHECK", "EXIT_INPUT", "EXIT_DEFECT"]

@@ -75,6 +75,7 @@ import numpy as np
 
 from .circuit import UNCONTROLLED, Axis, solve
 from .errors import InputError
+from .constants import T0_C
 
 #: heat terms of a step, in the order they are reported (where the heat arises)
 HEAT_TERMS = ("flow valve", "holding valve", "relief", "unloading valve", "return line", "cylinder friction",
@@ -227,8 +228,8 @@ class CycleSpec:
         if self.idle not in IDLE_STATES:
             raise InputError("idle", repr(self.idle), "one of 'relief', 'unloaded'")
         if self.oil_max <= self.ambient:
-            raise InputError("oil_max", f"{self.oil_max - 273.15:g} degC",
-                             f"a temperature above the ambient ({self.ambient - 273.15:g} degC)")
+            raise InputError("oil_max", f"{self.oil_max - T0_C:g} degC",
+                             f"a temperature above the ambient ({self.ambient - T0_C:g} degC)")
 
     @property
     def period(self) -> float:
@@ -553,7 +554,7 @@ def step_from_data(data: Mapping, where: str = "step") -> Step:
         return Step(data.get("kind", ""), num("duration"), data.get("axis"), data.get("direction"),
                     num("load", none_ok=False) if "load" in data else 0.0, num("stroke"), data.get("label", ""))
     except InputError as exc:
-        raise InputError(f"{where}.{exc.field}", exc.given, exc.allowed) from None
+        raise exc.qualified(f"{where}.{exc.field}") from None
 
 
 __all__ += ["spec_from_values", "step_to_data", "step_from_data"]

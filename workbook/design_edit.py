@@ -40,7 +40,7 @@ from pathlib import Path
 from typing import Any, Mapping
 
 from .design import DesignFileError, _value_text, load_design, loads_design
-from .errors import InputError
+from .errors import InputError, InternalDefect
 from .inputs import BY_KEY
 from .record.store import atomic_write_text
 
@@ -132,8 +132,7 @@ def write_inputs(path, axis_key: str, values: Mapping[str, Mapping[str, Any]],
     left = design_changes(check, values)
     if left:
         sec_key, key, got, want = left[0]
-        raise InputError(f"{sec_key}.{key}", f"a design file that reads back {got!r} instead of {want!r}",
-                         "a value the design file can hold exactly (report this as a defect)")
+        raise InternalDefect(f"{sec_key}.{key}", f"the design file would read back {got!r} instead of {want!r}")
     atomic_write_text(path, out)
     return written
 

@@ -42,11 +42,8 @@ import math
 import numpy as np
 
 from .errors import InputError, ModelValidityError
+from .constants import P_ATM, T0_C  # noqa: F401  (re-exported: fluid.P_ATM, fluid.T0_C)
 
-#: standard atmosphere, Pa (absolute = gauge + P_ATM)
-P_ATM = 101325.0
-#: 0 °C in kelvin
-T0_C = 273.15
 #: reference temperature of the density, K (15 °C)
 T_DENSITY_REF = 288.15
 #: lowest kinematic viscosity for which the ASTM D341 constant 0.7 holds, m²/s

@@ -36,9 +36,8 @@ from typing import Mapping
 import numpy as np
 
 from .errors import InputError
+from .constants import BAR as _BAR, LPM as _LPM
 
-_BAR = 1e5
-_LPM = 1.0 / 60000.0
 
 
 def _finite_positive(field: str, value, unit_words: str) -> float:

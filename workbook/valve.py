@@ -57,9 +57,8 @@ from typing import Any
 import numpy as np
 
 from .errors import InputError
+from .constants import BAR as _BAR, LPM as _LPM
 
-_BAR = 1e5
-_LPM = 1.0 / 60000.0
 
 #: default flow gradient of a free-flow check above its cracking pressure, Pa per m³/s:
 #: 0.1 bar per L/min (a small cartridge check at 20 L/min drops about 2 bar; from memory)

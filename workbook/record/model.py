@@ -338,7 +338,7 @@ def _entry_from_si(f: Field, si: Any, where: str) -> dict:
     except InputError as exc:
         if exc.field.startswith(where):
             raise
-        raise type(exc)(where, exc.given, exc.allowed) from None
+        raise exc.qualified(where) from None
 
 
 def _display(f: Field, si: float, dimension: str) -> float:
@@ -404,7 +404,7 @@ def _value_from_entry(f: Field, entry: Mapping, where: str):
     except InputError as exc:
         if exc.field.startswith(where):
             raise
-        raise type(exc)(where, exc.given, exc.allowed) from None
+        raise exc.qualified(where) from None
 
 
 def _as_si(value: float, unit: str, dimension: str, key: str) -> float:
@@ -607,7 +607,7 @@ class Record:
                 try:
                     study = Study.from_dict(study)
                 except InputError as exc:
-                    raise type(exc)(f"studies.{key}.{exc.field}", exc.given, exc.allowed) from None
+                    raise exc.qualified(f"studies.{key}.{exc.field}") from None
             if not isinstance(study, Study):
                 raise InputError(f"studies.{key}", f"a {type(study).__name__}", "a Study")
             clean[key] = study

@@ -21,7 +21,7 @@ from typing import Iterable, Mapping
 import numpy as np
 
 from .. import CAUTION, inputs, units
-from ..errors import InputError
+from ..errors import InputError, InternalDefect
 from ..record import Study, inputs_from_values
 from ..record.model import STUDY_SECTIONS
 
@@ -36,7 +36,7 @@ def result(label: str, si_value, dimension: str, unit: str) -> dict:
     """
     value = units.from_si(float(si_value), dimension, unit) if dimension != "dimensionless" else float(si_value)
     if not math.isfinite(value):
-        raise InputError(label, "a value that is not finite", "a finite result (report this as a defect)")
+        raise InternalDefect(f"result {label}", "a value that is not finite")
     return {"value": float(value), "unit": unit if dimension != "dimensionless" or unit else "", "label": label}
 
 
@@ -74,7 +74,7 @@ def finding(rule_id: str, statement: str, quantity: str, value, limit, dimension
         v = float(v)
         if not math.isfinite(v):
             # a NaN or infinity here is a defect of the study, never something to hide as "–"
-            raise InputError(rule_id, "a value that is not finite", "a finite finding (report this as a defect)")
+            raise InternalDefect(f"finding {rule_id}", "a value that is not finite")
         if dimension == "dimensionless":
             return v * (100.0 if unit == "%" else 1.0)
         return float(units.from_si(v, dimension, unit))
@@ -101,7 +101,7 @@ def as_alternative(item: dict, what: str) -> dict:
 def _finite_margin(rule_id: str, margin) -> float:
     m = float(margin)
     if not math.isfinite(m):
-        raise InputError(rule_id, "a margin that is not finite", "a finite margin (report this as a defect)")
+        raise InternalDefect(f"finding {rule_id}", "a margin that is not finite")
     return m
 
 

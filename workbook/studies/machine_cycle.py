@@ -39,6 +39,7 @@ from ..circuit import axis_from_values
 from ..cycle import (HEAT_TERMS, IDLE_REST, MachineCycle, consistent_cycle, spec_from_values, step_from_data,
                      step_to_data, timeline, warm_up)
 from ..errors import InputError
+from ..constants import TO_LPM
 from ..fields import Field
 from ..inputs import CYCLE
 from ..record import Record, Study, values_from_inputs, inputs_from_values
@@ -90,7 +91,7 @@ class MachineOutcome:
             rows.append({"step": s.step.label, "axis": s.step.axis or "-",
                          "motion": s.step.direction or ("idle" if s.step.kind == "dwell" else ""),
                          "load kN": s.step.load / 1e3, "time s": s.duration, "speed mm/s": s.speed * 1e3,
-                         "pump bar": s.p_pump / 1e5, "flow L/min": s.q_pump * 6e4, "shaft kW": s.shaft / 1e3,
+                         "pump bar": s.p_pump / 1e5, "flow L/min": s.q_pump * TO_LPM, "shaft kW": s.shaft / 1e3,
                          "useful kW": s.useful / 1e3, "heat kW": s.heat_total / 1e3, "regime": s.regime})
         return rows
 
@@ -138,7 +139,7 @@ def _axes(axes_values: Mapping) -> dict:
         try:
             out[key] = axis_from_values(values)
         except InputError as exc:
-            raise InputError(f"axes.{key}.{exc.field}", exc.given, exc.allowed) from None
+            raise exc.qualified(f"axes.{key}.{exc.field}") from None
     return out
 
 
@@ -177,7 +178,7 @@ def _alt_values(key: str, axes_values: Mapping, cycle: Mapping, drawn: MachineCy
         q_new = max(metered) * (1.0 + PUMP_MARGIN)
         q_now = drawn.result.steps[0].q_pump
         if q_new >= q_now * 0.99:
-            return f"a metered step takes {max(metered) * 6e4:.3g} L/min, within 10 % of the pump"
+            return f"a metered step takes {max(metered) * TO_LPM:.3g} L/min, within 10 % of the pump"
         for vals in av.values():
             eta_v = vals["supply"].get("volumetric_efficiency") or 1.0
             vals["supply"]["pump_flow"] = q_new
@@ -297,7 +298,7 @@ def run_machine(axes_values: Mapping, cycle: Mapping) -> MachineOutcome:
                  spec.tank.volume, spec.tank_minutes * q_pump * 60.0, "volume", "L",
                  "caution" if spec.tank.volume < spec.tank_minutes * q_pump * 60.0 * (1 - 1e-12) else "pass",
                  "common practice (3 to 5 times the pump flow per minute)",
-                 f"pump {q_pump * 6e4:.3g} L/min x {spec.tank_minutes:g} min", higher=False),
+                 f"pump {q_pump * TO_LPM:.3g} L/min x {spec.tank_minutes:g} min", higher=False),
     ]
     if math.isfinite(drive):
         f.append(_finding("CYC-MOTOR-RMS", "The RMS shaft power over the cycle stays within the installed drive.",
@@ -393,7 +394,7 @@ def inputs_from_data(data) -> tuple[dict, dict]:
         try:
             axes_values[key] = values_from_inputs(entries)
         except InputError as exc:
-            raise InputError(f"machine inputs.axes.{key}.{exc.field}", exc.given, exc.allowed) from None
+            raise exc.qualified(f"machine inputs.axes.{key}.{exc.field}") from None
     values = {}
     for f in CYCLE.fields:
         raw = data["cycle"].get(f.key)

@@ -24,6 +24,7 @@ import numpy as np
 from .. import inputs
 from .. import restrictor as rs
 from ..errors import InputError
+from ..constants import T0_C, TO_LPM
 from ..fluid import Oil
 from .base import Outcome, as_alternative, curve, finding, grade, ratio_result, result
 
@@ -62,8 +63,8 @@ def run(values) -> Outcome:
     q, dp, t_design = st["target_flow"], st["available_drop"], st["design_temp"]
     t_lo, t_hi = op["temp_min"], op["temp_max"]
     if not t_lo < t_hi:
-        raise InputError("operation.temp_max", f"{t_hi - 273.15:g} degC",
-                         f"a temperature above the cold one ({t_lo - 273.15:g} degC)")
+        raise InputError("operation.temp_max", f"{t_hi - T0_C:g} degC",
+                         f"a temperature above the cold one ({t_lo - T0_C:g} degC)")
     oil.check_temperature(np.array([t_lo, t_hi, t_design]), field="operation.temp_min")
     rho, mu = oil.density(t_design), oil.dynamic_viscosity(t_design)
     cd = fv["cd"]
@@ -72,7 +73,7 @@ def run(values) -> Outcome:
     try:
         drilled = rs.drilled_orifice(q, dp, rho, mu, cd=cd)
     except InputError as exc:
-        raise InputError("study.target_flow", f"{q * 6e4:g} L/min at {dp / 1e5:g} bar",
+        raise InputError("study.target_flow", f"{q * TO_LPM:g} L/min at {dp / 1e5:g} bar",
                          f"a flow and drop whose orifice fits the drill series ({exc.allowed})") from None
     d_exact, d_drill = float(drilled.exact_diameter), float(drilled.drill_diameter)
     orifice = rs.SharpOrifice(d_drill, cd=cd)
@@ -86,7 +87,7 @@ def run(values) -> Outcome:
         lift = rs.needle_lift(q, dp, rho, mu, fv["seat_diameter"], fv["half_angle"], cd=cd)
     except InputError as exc:
         needle_problem = (f"the needle seat of {fv['seat_diameter'] * 1e3:g} mm (Flow valve, Needle seat "
-                          f"diameter) cannot pass {q * 6e4:.4g} L/min at {dp / 1e5:.4g} bar ({exc.allowed})")
+                          f"diameter) cannot pass {q * TO_LPM:.4g} L/min at {dp / 1e5:.4g} bar ({exc.allowed})")
     turns_field = inputs.FLOW_VALVE["turns"]
     if lift is not None:
         turns = float(lift.lift) / fv["pitch"]
@@ -174,7 +175,7 @@ def run(values) -> Outcome:
     in_band = sized_regime["long throttle"] == rs.TRANSITIONAL or band_t.any()
     if in_band:
         re_sized = float(throttle_size.state.reynolds)
-        where = (f"oil {float(temps[band_t].min()) - 273.15:.0f} to {float(temps[band_t].max()) - 273.15:.0f} °C"
+        where = (f"oil {float(temps[band_t].min()) - T0_C:.0f} to {float(temps[band_t].max()) - T0_C:.0f} °C"
                  if band_t.any() else "at the sizing point")
         item = finding(
             "SZ-THROTTLE-BAND", "The long throttle runs laminar (below the transition band, Re "
@@ -197,14 +198,14 @@ def run(values) -> Outcome:
             "x_label": "Pressure drop [bar]", "y_label": "Flow [L/min]",
             "x": curve(dps / 1e5),
             "series": {name: curve(np.asarray(f.flow) * 60000.0) for name, f in flow_dp.items()},
-            "limits": {"target flow": q * 60000.0}, "bands": _band(dps / 1e5, band_dp),
+            "limits": {"target flow": q * TO_LPM}, "bands": _band(dps / 1e5, band_dp),
         },
         "flow_vs_temperature": {
             "title": "Flow against oil temperature at the available drop",
             "x_label": "Oil temperature [degC]", "y_label": "Flow [L/min]",
-            "x": curve(temps - 273.15),
+            "x": curve(temps - T0_C),
             "series": {name: curve(np.asarray(f.flow) * 60000.0) for name, f in flow_t.items()},
-            "limits": {"target flow": q * 60000.0}, "bands": _band(temps - 273.15, band_t),
+            "limits": {"target flow": q * TO_LPM}, "bands": _band(temps - T0_C, band_t),
         },
     }
     regimes = {

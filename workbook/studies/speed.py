@@ -24,6 +24,7 @@ import numpy as np
 from .. import restrictor as rs
 from ..circuit import METERING, solve
 from ..errors import InputError
+from ..constants import TO_LPM
 from ..valve import CompensatedFlowValve, RestrictorValve
 from .base import Outcome, as_alternative, curve, finding, grade, ratio_result, result
 from .common import AXIS_FIELDS, HOLDING_FIELDS, build_axis, regime_list, sweep
@@ -102,7 +103,7 @@ def candidates(values):
     a_drive = c.a1 if base.controlled == "extend" else c.a3
     if v_target * a_drive > base.supply.flow:
         raise InputError("operation.target_speed", f"{v_target * 1e3:g} mm/s",
-                         f"a speed the pump ({base.supply.flow * 6e4:.4g} L/min) can fill, at most "
+                         f"a speed the pump ({base.supply.flow * TO_LPM:.4g} L/min) can fill, at most "
                          f"{base.supply.flow / a_drive * 1e3:.4g} mm/s")
     loads = np.asarray(base.loads, dtype=float)
     f_ref = float(np.sort(loads)[loads.size // 2])     # a real load case: the middle one

@@ -42,7 +42,7 @@ import numpy as np
 
 from .. import inputs
 from ..design_edit import design_changes, write_inputs
-from ..errors import InputError
+from ..errors import InputError, InternalDefect
 from ..studies.whole_axis import DEFAULT_STUDIES, evaluate
 from .controls import QuantityControl, control_for, css_name
 from .plots import LivePlot
@@ -285,7 +285,11 @@ class StudyPanel:
             self._mark_stale(f"{_where(bad[0])}: {bad[0].entry.value!r} was not accepted.")
             return False
         kind = self.study.KIND
-        ev = evaluate(self.values, self.kinds)
+        try:
+            ev = evaluate(self.values, self.kinds)
+        except InternalDefect as exc:
+            self._mark_stale(str(exc) + ".")
+            return False
         try:
             if kind in ev.refused:
                 raise ev.refused[kind]
@@ -482,7 +486,12 @@ class StudyPanel:
         written = []
         if self.design_path is not None and self.changes_from_design():
             typed = {k: c.entry.value for k, c in self.controls.items() if isinstance(c.entry, W.Text)}
-            written = write_inputs(self.design_path, self.axis_key, self.values, typed)
+            try:
+                written = write_inputs(self.design_path, self.axis_key, self.values, typed)
+            except InternalDefect as exc:
+                self.record_status.value = (f"<span class='wb-refused'>Not recorded: {html.escape(str(exc))}; "
+                                            "the design file and the record are unchanged.</span>")
+                return None
         self.record_path.parent.mkdir(parents=True, exist_ok=True)
         save(rec, self.record_path)
         self.design_values = copy.deepcopy(self.values)
