@@ -51,6 +51,39 @@ def test_notebook_is_small_and_clean(path):
     assert shown
 
 
+@pytest.mark.parametrize("path", NOTEBOOKS, ids=lambda p: p.name)
+def test_bokehjs_loads_in_a_cell_of_its_own_before_the_panel(path):
+    """The first code cell loads BokehJS and creates no widget; the panel comes after it (on
+    first open the large inline script must not share the panel cell's widget messages)."""
+    nb = json.loads(path.read_text(encoding="utf-8"))
+    code = ["".join(c["source"]) for c in nb["cells"] if c["cell_type"] == "code"]
+    assert "load_bokehjs()" in code[0], code[0]
+    assert not any(w in code[0] for w in ("open_study", "open_machine", "ipywidgets", ".show()")), code[0]
+    assert "panel.show()" in code[1], code[1]
+
+
+def test_scripted_entry_sets_a_value_the_notebook_does_not_have():
+    """The example entry each notebook suggests (``panel.set(...)`` in its text) changes the
+    value the notebook opens on, so trying it shows something new."""
+    from workbook import inputs
+    from workbook.design import load_design
+    from workbook.tools.notebooks import DESIGN, STUDIES
+
+    design = load_design(ROOT / "notebooks" / DESIGN)
+    checked = 0
+    for name, (kind, axis, *_rest, try_line) in STUDIES.items():
+        m = re.fullmatch(r'panel\.set\("(\w+)\.(\w+)", "([^"]+)"\)', try_line)
+        if m is None or axis is None:
+            continue
+        section, key, text = m.groups()
+        field = inputs.section(section)[key]
+        opened = design.axes[axis].values[section][key]
+        typed = field.parse(text)
+        assert typed != opened, f"{name}: {try_line} sets {section}.{key} to the value it already has ({text})"
+        checked += 1
+    assert checked >= 4
+
+
 @pytest.mark.slow
 def test_nbval_bites_when_an_input_changes(tmp_path):
     """Re-running a study with one input changed makes nbval's comparison fail."""

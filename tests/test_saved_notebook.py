@@ -32,7 +32,7 @@ PANEL_NOTEBOOKS = [name for name, spec in STUDIES.items() if (NOTEBOOKS / name).
 
 def _snapshot(nb) -> str:
     for cell in nb.cells:
-        if cell.cell_type == "code" and IGNORE_TAG in cell.metadata.get("tags", []):
+        if cell.cell_type == "code" and IGNORE_TAG in cell.metadata.get("tags", []) and "panel.show()" in cell.source:
             pages = [o["data"]["text/html"] for o in cell.outputs if "text/html" in o.get("data", {})]
             pages = ["".join(p) if isinstance(p, list) else p for p in pages]
             pages = [p for p in pages if "wb-snapshot" in p]

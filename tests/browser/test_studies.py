@@ -34,6 +34,7 @@ from pathlib import Path
 
 import pytest
 
+from screen import check_screen, expected_evaluation
 from lab import (
     REPO_ROOT,
     assert_no_cell_errors,
@@ -169,8 +170,14 @@ def test_study_panel_in_the_browser(lab_server, page, browser_log, study_folder)
     results0 = results_of(page)
     assert len(results0) >= 5, results0
     assert not stale_shown(page)
+    # what the screen shows is what the axis evaluates to: every level mark, count and number
+    # of the verdict, findings and results tables, every figure's drawn data and its pixels,
+    # against the evaluation of the same design file in this process
+    design = folder / "designs" / "bin-tipper.toml"
+    seen = check_screen(page, panel, expected_evaluation(design, study.axis), study.kind)
+    print(f"\n[{study.kind}] compared on screen: {seen}")
     data0 = bokeh_columns(page, "y")
-    assert data0 and any(data0), "BokehJS holds no plotted data"
+    assert data0 and any(v is not None for col in data0 for v in col), "BokehJS holds no plotted data"
     first_canvas = plots.first.locator(".bk-Canvas canvas").first
     picture0 = first_canvas.screenshot()
 
@@ -191,6 +198,8 @@ def test_study_panel_in_the_browser(lab_server, page, browser_log, study_folder)
     )
     page.wait_for_timeout(300)  # BokehJS repaints after the data change
     assert first_canvas.screenshot() != picture0, "the first figure was not redrawn"
+    # and the new screen is the evaluation with the typed value
+    check_screen(page, panel, expected_evaluation(design, study.axis, {study.field: study.good_si}), study.kind)
     screenshot_whole(page, f"study-{study.kind}-changed", panel)
 
     # 4. a refused value: message, marked row, out-of-date note, old numbers ---

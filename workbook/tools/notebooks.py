@@ -1,6 +1,7 @@
 """Create and refresh the study notebooks.
 
-``python -m workbook.tools.notebooks refresh notebooks`` executes every study notebook with
+``python -m workbook.tools.notebooks refresh notebooks`` brings the cells of every study notebook
+back to its template (when the template changed), executes it with
 the library as it is now (nbclient), keeps the text outputs that nbval compares, keeps the
 panel's static snapshot (its verdict, results, findings and SVG figures as HTML, so the saved
 notebook reads as a design record without a kernel), drops the widget's own output (its
@@ -35,7 +36,7 @@ STUDIES = {
         "Re 2300 to 4000) its flow rises, peaks and falls with temperature and is uncertain: make it longer "
         "or give it a lower drop. A candidate that cannot be sized for the duty is marked \"not possible "
         "here\" with the reason; the others still answer.",
-        'panel.set("study.target_flow", "12 L/min")',
+        'panel.set("study.target_flow", "9 L/min")',
     ),
     "2-speed-against-load.ipynb": (
         "speed-vs-load", "lift", "Load sensitivity of speed",
@@ -84,6 +85,22 @@ DESIGN = "designs/bin-tipper.toml"
 IGNORE_TAG = "nbval-ignore-output"
 
 
+#: the cell that loads BokehJS, on its own before any widget exists
+BOKEHJS_SOURCE = (
+    "# BokehJS from the installed bokeh package (no CDN: the figures work offline), in a cell of\n"
+    "# its own so that its large script is in the page before the panel's widgets arrive\n"
+    "from workbook.ui.panel import load_bokehjs\n\n"
+    "load_bokehjs()")
+
+
+def _bokehjs_cell():
+    import nbformat.v4 as nbf
+
+    cell = nbf.new_code_cell(BOKEHJS_SOURCE)
+    cell.metadata["tags"] = [IGNORE_TAG]   # its output is the script itself: nothing to compare
+    return cell
+
+
 def _sentence(text: str) -> str:
     """``text`` starting with a capital letter."""
     return text[:1].upper() + text[1:]
@@ -110,6 +127,7 @@ def _cells(kind, axis, title, purpose, hint, try_line):
             "results stay, marked out of date. **Record study** re-runs every study on the panel's inputs, "
             "writes the axis record and writes the changed inputs into the design file; **Export HTML** "
             "writes the record's review copy."),
+        _bokehjs_cell(),
         panel,
         nbf.new_markdown_cell(
             f"{hint}\n\nTo change an input from code, add a cell such as `{try_line}`: the panel above "
@@ -138,6 +156,7 @@ def _machine_cells(title, purpose, hint, try_line):
             "`axisbook evaluate`). Its entries are the cycle's own inputs (tank, cooling, idle state, cycles "
             "per hour); change an axis in its own study. **Record machine** writes the machine record and its "
             "review copy beside the axis records."),
+        _bokehjs_cell(),
         panel,
         nbf.new_markdown_cell(
             f"{hint}\n\nTo try a value from code, add a cell such as `{try_line}`: the panel above follows "
@@ -199,6 +218,11 @@ def _strip(nb) -> None:
                 o.pop("metadata", None) if o.get("output_type") == "stream" else None
 
 
+def _sources(cells) -> list:
+    """What a cell of the template fixes: its type, source and tags."""
+    return [(c.cell_type, "".join(c.source), tuple(c.get("metadata", {}).get("tags", ()))) for c in cells]
+
+
 def refresh(folder: Path) -> list[Path]:
     """Execute and strip every study notebook in ``folder``."""
     import nbformat
@@ -210,6 +234,12 @@ def refresh(folder: Path) -> list[Path]:
         for name in STUDIES:
             path = folder / name
             nb = nbformat.read(path, as_version=4)
+            template = _cells(*STUDIES[name])
+            if _sources(nb.cells) != _sources(template):
+                # the template changed since the notebook was written: its cells follow it
+                # (their outputs are written again below anyway)
+                nb.cells = template
+                print(f"template: {path}")
             NotebookClient(nb, timeout=300, kernel_name="python3",
                            resources={"metadata": {"path": str(folder)}}).execute()
             _strip(nb)
