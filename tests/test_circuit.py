@@ -246,17 +246,23 @@ def test_conservation_and_limits(cfg, direction, kind, loads, temp, opening):
     for p in (s.p1, s.p3, s.p_pump, s.p_mid):
         assert np.all(p + P_ATM >= 0.0)
     assert set(s.regime) <= set(REGIMES)
-    # continuity at the pump
-    assert np.allclose(s.q_cylinder_in + s.q_relief + s.q_bleed, QP, rtol=0, atol=1e-10 * QP)
+    # continuity at the pump, the relief flow from its own characteristic at the solved pump
+    # pressure (the solver's q_relief is the remainder, so a sum with it would be an identity)
+    q_relief_law = ax.supply.relief.flow(s.p_pump, ax.tank_pressure)
+    assert np.allclose(s.q_cylinder_in + q_relief_law + s.q_bleed, QP, rtol=1e-7, atol=1e-9 * QP)
     a_d, a_o = (A1, A3) if direction == "extend" else (A3, A1)
     assert np.allclose(s.q_cylinder_out, a_o * s.speed)
     assert np.allclose(s.q_cylinder_in + s.q_void, a_d * s.speed, rtol=1e-12, atol=1e-15)
     # force balance (DEVELOPERS.md sign convention) where the solution is balanced
+    # (from the pressures, the load and the friction alone: the solver's unbalanced_force is
+    # defined as the remainder, so a balance with it in would be an identity)
     sign = 1.0 if direction == "extend" else -1.0
     lhs = s.p1 * A1 - s.p3 * A3
-    rhs = f + sign * s.friction_force - sign * s.unbalanced_force
-    assert np.allclose(lhs, rhs, rtol=1e-9, atol=1e-6 * (np.abs(f).max() + 1e3))
     balanced = ~np.isin(s.regime, (RUNAWAY, STALLED, CAVITATING, HELD, CLOSED, SINKING))
+    # moving, friction (400 N, see make) opposes the motion; driven back (speed < 0) it turns
+    moving = balanced & (s.speed != 0)
+    rhs = f + sign * 400.0 * np.sign(s.speed)
+    assert np.allclose(lhs[moving], rhs[moving], rtol=1e-9, atol=1e-6 * (np.abs(f).max() + 1e3))
     assert np.all(s.unbalanced_force[balanced] == 0.0)
     # the relief characteristic, its outlet at the tank back pressure
     assert np.allclose(s.q_relief, ax.supply.relief.flow(s.p_pump, ax.tank_pressure), rtol=1e-7, atol=1e-9 * QP)

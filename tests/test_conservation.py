@@ -46,7 +46,7 @@ G_BP = 1 * BAR / LPM
 
 def _holding(kind):
     if kind == "cb-outlet":
-        return CounterbalanceValve(120 * BAR, 3.0, G_CB, CheckValve(1 * BAR))
+        return CounterbalanceValve(120 * BAR, 3.0, G_CB, CheckValve(1 * BAR), spring_chamber="outlet-referenced")
     if kind == "cb-vented":
         return CounterbalanceValve(120 * BAR, 3.0, G_CB, CheckValve(1 * BAR), spring_chamber="vented")
     return BackPressureValve(60 * BAR, G_BP, CheckValve(1 * BAR))
@@ -62,16 +62,15 @@ CASES = [("meter-out", "cap", "retract"), ("meter-out", "rod", "extend"),
          ("meter-in", "cap", "retract"), ("meter-in", "rod", "extend")]
 
 
-@pytest.mark.parametrize("kind", ["cb-outlet", "cb-vented", "bp"])
-@pytest.mark.parametrize("arrangement, side, direction", CASES)
-def test_each_law_closes_at_the_solved_pressures(arrangement, side, direction, kind):
-    h = _holding(kind)
-    ax = Axis(CYL, OIL, SUPPLY, RestrictorValve(SharpOrifice(D_ORIFICE)), arrangement=arrangement,
-              controlled=direction, holding=h, holding_side=side, friction=FRICTION, tank_pressure=TANK)
-    # an overrunning load on the held side (it pushes oil out of the holding chamber)
-    sign_load = 1.0 if side == "cap" else -1.0
-    loads = sign_load * np.array([5e3, 12e3, 20e3])
-    s = solve(ax, loads, T40, direction, 1.0)
+def _axis(h, arrangement, side, direction):
+    return Axis(CYL, OIL, SUPPLY, RestrictorValve(SharpOrifice(D_ORIFICE)), arrangement=arrangement,
+                controlled=direction, holding=h, holding_side=side, friction=FRICTION, tank_pressure=TANK)
+
+
+def _check_laws(h, kind, arrangement, direction, loads, s):
+    """Every law of the module docstring at the solved points of ``s``; returns the masks of
+    the points where the counterbalance meters (partly open) and where its pilot holds it
+    wide open (both False for the back-pressure valve)."""
     v = s.speed
     assert np.all(v > 0), s.regime
     a_d, a_o = (A1, A3) if direction == "extend" else (A3, A1)
@@ -83,17 +82,16 @@ def test_each_law_closes_at_the_solved_pressures(arrangement, side, direction, k
     # (driven) chamber, pilot the driving chamber, p_out the line after it
     q_out = a_o * v
     p_after = s.p_mid if arrangement == "meter-out" else TANK + 0.0 * v
+    metering = wide = np.zeros(v.shape, dtype=bool)
     if kind == "bp":
-        q_hand = (p_o - p_after - 60 * BAR) / G_BP
+        q_hand = (p_o - p_after - h.setting) / G_BP
     else:
-        k = 4.0 if kind == "cb-outlet" else 0.0
-        q_meter = np.maximum(p_o - (120 * BAR + k * p_after - 3.0 * p_d), 0.0) / G_CB
+        k = 1.0 + h.pilot_ratio if kind == "cb-outlet" else 0.0
+        q_meter = np.maximum(p_o - (h.setting + k * p_after - h.pilot_ratio * p_d), 0.0) / G_CB
         q_wide = (p_o - p_after) / h.open_gradient        # held wide open by the pilot
         q_hand = np.minimum(q_meter, q_wide)
-        if arrangement == "meter-in" or (side, kind) == ("rod", "cb-outlet"):
-            # partly open here: the metering branch (and so its gradient and pilot terms) is the one in force
-            assert np.all(q_meter < q_wide)
-    assert np.allclose(q_hand, q_out, rtol=1e-6, atol=1e-6 * QP)
+        metering, wide = q_meter < q_wide, q_wide < q_meter
+    assert np.allclose(q_hand, q_out, rtol=1e-6, atol=1e-6 * QP), (q_hand / LPM, q_out / LPM)
     assert np.all(q_out > 0.05 * QP)
     if arrangement == "meter-out":
         # the orifice between the holding valve and tank passes the same flow
@@ -106,3 +104,33 @@ def test_each_law_closes_at_the_solved_pressures(arrangement, side, direction, k
     # the pump flow splits into cylinder and relief, the relief on its own characteristic
     q_relief = QP * np.clip((s.p_pump - TANK - P_CRACK) / (P_FULL - P_CRACK), 0.0, None)
     assert np.allclose(q_relief + q_in, QP, rtol=1e-6, atol=1e-6 * QP), (s.p_pump, q_in)
+    return metering, wide
+
+
+@pytest.mark.parametrize("kind", ["cb-outlet", "cb-vented", "bp"])
+@pytest.mark.parametrize("arrangement, side, direction", CASES)
+def test_each_law_closes_at_the_solved_pressures(arrangement, side, direction, kind):
+    h = _holding(kind)
+    # an overrunning load on the held side (it pushes oil out of the holding chamber)
+    sign_load = 1.0 if side == "cap" else -1.0
+    loads = sign_load * np.array([5e3, 12e3, 20e3])
+    s = solve(_axis(h, arrangement, side, direction), loads, T40, direction, 1.0)
+    metering, _wide = _check_laws(h, kind, arrangement, direction, loads, s)
+    if kind != "bp" and (arrangement == "meter-in" or (side, kind) == ("rod", "cb-outlet")):
+        # partly open here: the metering branch (and so its gradient and pilot terms) is the one in force
+        assert np.all(metering)
+
+
+@pytest.mark.parametrize("kind", ["cb-outlet", "cb-vented"])
+@pytest.mark.parametrize("side, direction, sign", [("cap", "retract", 1.0), ("rod", "extend", -1.0)])
+def test_counterbalance_meters_then_its_pilot_holds_it_wide_open(kind, side, direction, sign):
+    """Meter-in, from an overrunning load (the counterbalance meters, partly open, its pilot
+    pressure just what opening it takes) to a resisting one (the driving pressure, and so the
+    pilot, rises until the valve is held wide open and drops r q): both branches of the
+    valve's characteristic, re-evaluated at the solved pressures, are met on one sweep."""
+    spring = "vented" if kind == "cb-vented" else "outlet-referenced"
+    h = CounterbalanceValve(30 * BAR, 3.0, G_CB, CheckValve(1 * BAR), spring_chamber=spring)
+    loads = sign * np.array([5e3, 0.0, -2e3, -8e3, -15e3])
+    s = solve(_axis(h, "meter-in", side, direction), loads, T40, direction, 1.0)
+    metering, wide = _check_laws(h, kind, "meter-in", direction, loads, s)
+    assert metering[:3].all() and wide[-2:].all(), (metering, wide)
