@@ -24,7 +24,6 @@ import contextlib
 import io
 import json
 import os
-import random
 import re
 import resource
 import signal

@@ -15,7 +15,6 @@ import json
 import os
 import re
 import resource
-import signal
 import subprocess
 import sys
 import time

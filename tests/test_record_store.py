@@ -151,6 +151,53 @@ def test_saved_file_is_valid_and_its_digest_follows_the_documented_recipe(tmp_pa
     assert stored == "sha256:" + hashlib.sha256(canonical).hexdigest()
 
 
+def _non_ascii_record():
+    from workbook.record import inputs_from_values
+    s = Study("restrictor-sizing", "Absenken: Drossel Ø 1,4 mm",
+              inputs=inputs_from_values({"cylinder": {"bore": 0.08, "rod": 0.045}}),
+              results={"q": {"value": 5.0265e-4, "unit": "m**3/s", "label": "Abfluss Kolbenseite (kalt, 20 °C)"}},
+              findings=[{"rule_id": "P1", "statement": "Druck unter der Nenngröße ±0 %", "value": 18.0,
+                         "limit": 210.0, "unit": "bar", "margin": 0.914, "level": "pass",
+                         "source": "Datenblatt des Herstellers; 油圧 \U0001F6A7"}],
+              notes=["Öl: VG46, ν40 = 46 mm²/s"])
+    return Record({"machine": "Kipper für Müllbehälter", "axis": "lift", "author": "Åsa Ødegård",
+                   "date": "2026-11-30"}, {"sizing": s})
+
+
+def test_digest_recipe_holds_for_a_non_ascii_record(tmp_path):
+    """The recipe on text beyond ASCII: the canonical JSON keeps the characters themselves
+    (``ensure_ascii=False``), encoded as UTF-8 (RFC 3629), and the digest is the SHA-256 of
+    those bytes, here computed by coreutils' ``sha256sum`` outside Python as well."""
+    import shutil
+    import subprocess
+
+    path = save(_non_ascii_record(), tmp_path / "lift.json")
+    doc = json.loads(path.read_text(encoding="utf-8"))
+    stored = doc.pop("digest")
+    canonical = json.dumps(doc, sort_keys=True, separators=(",", ":"), ensure_ascii=False).encode("utf-8")
+    # the characters themselves, not \u escapes: Ø is C3 98, ü C3 BC, 油 E6 B2 B9, 🚧 F0 9F 9A A7 (RFC 3629)
+    for raw in (b"\xc3\x98 1,4 mm", b"f\xc3\xbcr", b"\xe6\xb2\xb9", b"\xf0\x9f\x9a\xa7"):
+        assert raw in canonical, raw
+    assert b"\\u" not in canonical
+    # source: hashlib.sha256 over the canonical JSON described in store.py
+    assert stored == "sha256:" + hashlib.sha256(canonical).hexdigest()
+    if shutil.which("sha256sum"):
+        out = subprocess.run(["sha256sum"], input=canonical, capture_output=True, check=True).stdout
+        assert stored == "sha256:" + out.split()[0].decode("ascii")
+    assert load(path) == _non_ascii_record()
+
+
+def test_digest_of_a_small_non_ascii_document_by_hand():
+    """A known answer: the canonical bytes written out by hand (keys sorted, no spaces, UTF-8
+    per RFC 3629: é = C3 A9, Ø = C3 98), hashed outside the code under test."""
+    canonical = b'{"a":"\xc3\x98 80 mm","b":["\xc3\xa9",1.5]}'
+    expected = "sha256:" + hashlib.sha256(canonical).hexdigest()
+    assert store.digest({"b": ["é", 1.5], "a": "Ø 80 mm"}) == expected
+    # an escaped form (ensure_ascii=True) would hash other bytes: the recipe is not that
+    assert store.digest({"b": ["é", 1.5], "a": "Ø 80 mm"}) != \
+        "sha256:" + hashlib.sha256(b'{"a":"\\u00d8 80 mm","b":["\\u00e9",1.5]}').hexdigest()
+
+
 def _edit(path, change):
     doc = json.loads(path.read_text(encoding="utf-8"))
     change(doc)
@@ -370,9 +417,9 @@ def test_no_stored_display_value_carries_float_noise(demo_records):
                 v = entry["value"]
                 numbers += v if isinstance(v, list) else [v] if isinstance(v, (int, float)) and not \
                     isinstance(v, bool) else []
-        for st in doc["studies"]:
-            numbers += [r["value"] for r in st["results"].values()]
-            numbers += [f[k] for f in st["findings"] for k in ("value", "limit", "margin") if f[k] is not None]
+        for study in doc["studies"]:
+            numbers += [r["value"] for r in study["results"].values()]
+            numbers += [f[k] for f in study["findings"] for k in ("value", "limit", "margin") if f[k] is not None]
         assert numbers and all(_significant_digits(v) <= 12 for v in numbers), \
             [v for v in numbers if _significant_digits(v) > 12][:5]
         assert doc["inputs"]["cylinder"]["rod"]["value"] in (45.0, 36.0)

@@ -362,7 +362,7 @@ def test_drilled_orifice_reports_flow_of_the_drill():
 
 # --------------------------------------------------------------------------- bad input
 
-O = SharpOrifice(1e-3)
+ORIFICE = SharpOrifice(1e-3)
 T = LongThrottle(1e-3, 0.02)
 
 BAD = [
@@ -374,11 +374,11 @@ BAD = [
     (lambda: SharpOrifice(1e-3, cd=0.0), "cd"),
     (lambda: SharpOrifice(1e-3, cd=1.2), "cd"),
     (lambda: SharpOrifice(1e-3, delta=0.0), "delta"),
-    (lambda: O.flow(float("nan"), 870.0, 0.04), "dp"),
-    (lambda: O.flow(1e5, -870.0, 0.04), "rho"),
-    (lambda: O.flow(1e5, 870.0, 0.0), "mu"),
-    (lambda: O.pressure_drop(float("inf"), 870.0, 0.04), "q"),
-    (lambda: O.discharge_coefficient(-1.0), "re"),
+    (lambda: ORIFICE.flow(float("nan"), 870.0, 0.04), "dp"),
+    (lambda: ORIFICE.flow(1e5, -870.0, 0.04), "rho"),
+    (lambda: ORIFICE.flow(1e5, 870.0, 0.0), "mu"),
+    (lambda: ORIFICE.pressure_drop(float("inf"), 870.0, 0.04), "q"),
+    (lambda: ORIFICE.discharge_coefficient(-1.0), "re"),
     (lambda: LongThrottle(1e-3, 0.0), "length"),
     (lambda: LongThrottle(1e-3, 0.02, entry_loss=-0.1), "entry_loss"),
     (lambda: LongThrottle(1e-3, 0.02, exit_loss=float("nan")), "exit_loss"),

@@ -26,7 +26,7 @@ from typing import Callable, Mapping
 import numpy as np
 
 from . import CAUTION
-from .circuit import (CLOSED, DRIVEN_BACK, HELD, RUNAWAY, STALLED, STARVED, UNCONTROLLED, Axis, Solution, solve)
+from .circuit import (CLOSED, DRIVEN_BACK, HELD, STALLED, STARVED, UNCONTROLLED, Axis, Solution, solve)
 from .errors import InputError
 from .constants import BAR as _BAR, T0_C, TO_LPM
 from .fluid import P_ATM

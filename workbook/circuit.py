@@ -98,7 +98,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field, fields, replace
-from typing import Any, Callable, Mapping
+from typing import Any, Mapping
 
 import numpy as np
 
@@ -479,7 +479,6 @@ def solve(axis: Axis, load, temperature, direction: str | None = None, opening: 
     f_res = lay.s * f_ext + axis.friction
     m = _Model(axis, lay, f_res, rho, mu, opening)
     a_d, a_o, qp, pt, pcav = lay.a_d, lay.a_o, m.qp, m.pt, m.pcav
-    relief = m.relief
     zeros = np.zeros(shape)
     xtol = 1e-13 * m.v_max
     ftol = 1e-13 * qp
@@ -764,7 +763,6 @@ def _sinking(axis: Axis, m: _Model, lay: _Layout, f_ext):
 def _assemble(axis, m: _Model, lay: _Layout, direction, opening, f_ext, temp, v, branch, rho, mu,
               demand=None) -> Solution:
     a_d, a_o, qp, pt, pcav = lay.a_d, lay.a_o, m.qp, m.pt, m.pcav
-    relief = m.relief
     shape = v.shape
     moving = v > 0.0
     fr_used = np.where(moving, axis.friction, 0.0)
@@ -1168,6 +1166,8 @@ def cautious_counterbalance(axis: Axis) -> CounterbalanceValve:
     return ven[1] if ven[0] > out[0] * (1 + 1e-9) else out[1]
 
 
-__all__ = ["Axis", "Ratings", "Solution", "solve", "natural_frequency", "chamber_modulus", "cautious_counterbalance", "axis_from_values", "design_loads", "G_STANDARD", "solve_increasing", "REGIMES",
+__all__ = ["Axis", "Ratings", "Solution", "solve", "natural_frequency", "chamber_modulus",
+           "cautious_counterbalance", "axis_from_values", "design_loads", "G_STANDARD", "solve_increasing",
+           "REGIMES",
            "ARRANGEMENTS", "DIRECTIONS", "METERING", "STARVED", "PUMP_LIMITED", "RELIEF", "STALLED", "HELD",
            "CLOSED", "RUNAWAY", "CAVITATING", "SINKING", "DRIVEN_BACK", "UNCONTROLLED", "CAVITATION_ABS_DEFAULT"]

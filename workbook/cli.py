@@ -30,6 +30,7 @@ import textwrap
 from pathlib import Path
 
 from . import CAUTION, __version__, safetext
+from .formatting import number as _num
 
 PROG = "axisbook"
 EXIT_OK, EXIT_CHECK, EXIT_INPUT, EXIT_DEFECT = 0, 1, 2, 3
@@ -171,14 +172,6 @@ def build_parser() -> argparse.ArgumentParser:
 
 
 # ---------------------------------------------------------------------------- formatting
-def _num(v) -> str:
-    if v is None:
-        return "n/a"
-    if isinstance(v, (list, tuple)):
-        return ", ".join(_num(x) for x in v)
-    return "0" if v == 0 else f"{v:.4g}"
-
-
 def finding_line(study: str, f: dict) -> str:
     """One line of the evaluate summary for a finding.
 
@@ -369,7 +362,7 @@ def _cmd_compare(args) -> int:
         a, b = old.identity.get(key, ""), new.identity.get(key, "")
         if a != b and not args.force:
             raise InputError(f"compare {args.new}", f"a record of {what} {b!r} against one of {what} {a!r} "
-                             f"({args.old})", f"two records of the same machine and axis (or --force to "
+                             f"({args.old})", "two records of the same machine and axis (or --force to "
                              "compare them anyway)")
     d = diff(old, new, rtol=args.rtol)
     print(f"Compare {args.old} -> {args.new}")
@@ -469,4 +462,5 @@ def _quiet_stdout() -> None:
         pass
 
 
-__all__ = ["main", "build_parser", "finding_line", "axis_summary", "machine_summary", "wrap_lines", "EXIT_OK", "EXIT_CHECK", "EXIT_INPUT", "EXIT_DEFECT"]
+__all__ = ["main", "build_parser", "finding_line", "axis_summary", "machine_summary", "wrap_lines",
+           "EXIT_OK", "EXIT_CHECK", "EXIT_INPUT", "EXIT_DEFECT"]

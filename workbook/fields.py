@@ -26,7 +26,7 @@ workbook.errors.InputError: bore: got -5 mm; allowed: a length greater than 0 mm
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass, field as dc_field
+from dataclasses import dataclass
 from typing import Any, Iterable, Mapping
 
 from .errors import InputError

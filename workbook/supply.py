@@ -36,7 +36,7 @@ from typing import Mapping
 import numpy as np
 
 from .errors import InputError
-from .constants import BAR as _BAR, LPM as _LPM
+from .constants import BAR as _BAR
 
 
 

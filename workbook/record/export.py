@@ -32,7 +32,8 @@ from ..inputs import BY_KEY, SECTIONS
 from .model import LEVELS, Record, Study
 from .store import atomic_write_text
 from .svg import ACCENT, line_chart
-from .verdict import margin_text, pretty_unit, record_verdict
+from ..formatting import number, pretty_unit
+from .verdict import margin_text, record_verdict
 
 LEVEL_WORD = {"fail": "FAIL", "caution": "CAUTION", "pass": "PASS"}
 LEVEL_MARK = {"fail": "\u25a0", "caution": "\u25b2", "pass": "\u25cb"}  # filled square, triangle, ring
@@ -43,18 +44,8 @@ def _esc(text) -> str:
 
 
 def _num(v, digits: int = 6) -> str:
-    if v is None:
-        return ""
-    if isinstance(v, bool):
-        return "yes" if v else "no"
-    if isinstance(v, (list, tuple)):
-        return ", ".join(_num(x, digits) for x in v)
-    if isinstance(v, str):
-        return v
-    if v == 0:
-        return "0"
-    return f"{v:.{digits}g}"
-
+    """The review copy's numbers: :func:`workbook.formatting.number` with a blank where missing."""
+    return number(v, digits, missing="")
 
 
 def _input_rows(inputs):

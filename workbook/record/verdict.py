@@ -36,6 +36,8 @@ import math
 from dataclasses import dataclass
 from typing import Iterable, Mapping
 
+from ..formatting import number, pretty_unit
+
 LEVELS = ("fail", "caution", "pass")
 
 #: rule id of a study -> rule id(s) of the axis check that grade the same quantity
@@ -64,30 +66,6 @@ def _sig(v, digits: int = 4):
     if v == 0 or not math.isfinite(v):
         return v
     return float(f"{v:.{digits}g}")
-
-
-def number(v, digits: int = 4) -> str:
-    """A number to ``digits`` significant digits, as the screens show it (``–`` for none).
-
-    >>> number(269.7312), number(0.0), number(None), number(1234567.0)
-    ('269.7', '0', '–', '1.235e+06')
-    """
-    if v is None:
-        return "–"
-    v = float(v)
-    if v == 0:
-        return "0"
-    return f"{v:.{digits}g}"
-
-
-def pretty_unit(unit: str) -> str:
-    """A unit as people write it: ``cm**3`` as ``cm³``, ``degC`` as ``°C``.
-
-    >>> pretty_unit("kg/m**3"), pretty_unit("degC")
-    ('kg/m³', '°C')
-    """
-    return (unit.replace("**2", "\u00b2").replace("**3", "\u00b3").replace("degC", "\u00b0C")
-            .replace("degF", "\u00b0F"))
 
 
 def _quantity(v, unit: str) -> str:

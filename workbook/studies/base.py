@@ -21,7 +21,8 @@ from typing import Iterable, Mapping
 import numpy as np
 
 from .. import CAUTION, inputs, units
-from ..errors import InputError, InternalDefect
+from ..errors import InternalDefect
+from ..formatting import number as _num
 from ..record import Study, inputs_from_values
 from ..record.model import STUDY_SECTIONS
 
@@ -246,16 +247,6 @@ class Outcome:
             lines.append(f"  [{f['level'].upper():7}] {f['rule_id']}: {f['statement']}"
                          f" ({_num(f['value'])} vs {_num(f['limit'])} {f['unit']}{margin}; {f['source']})")
         return "\n".join(lines)
-
-
-def _num(v) -> str:
-    if v is None:
-        return "–"
-    if isinstance(v, (list, tuple)):
-        return ", ".join(_num(x) for x in v)
-    if v == 0:
-        return "0"
-    return f"{v:.4g}"
 
 
 __all__ = ["Outcome", "as_alternative", "result", "ratio_result", "finding", "grade", "sort_findings", "curve", "LEVEL_ORDER"]

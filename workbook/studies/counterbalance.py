@@ -69,7 +69,6 @@ def run(values) -> Outcome:
     side = hold["side"]
     lower = lowering_direction(side)
     c = base.cylinder
-    a_hold = c.a1 if side == "cap" else c.a3
     cases = np.asarray(base.loads, dtype=float)
     p_load = np.asarray(base.holding_pressure(cases))
     p_load_max = float(p_load.max())

@@ -29,18 +29,17 @@ from __future__ import annotations
 import copy
 import json
 import math
-from dataclasses import dataclass, field, replace
+from dataclasses import dataclass, field
 from typing import Mapping
 
 import numpy as np
 
 from .. import CAUTION
 from ..circuit import axis_from_values
-from ..cycle import (HEAT_TERMS, IDLE_REST, MachineCycle, consistent_cycle, spec_from_values, step_from_data,
+from ..cycle import (HEAT_TERMS, MachineCycle, consistent_cycle, spec_from_values, step_from_data,
                      step_to_data, timeline, warm_up)
 from ..errors import InputError
 from ..constants import TO_LPM
-from ..fields import Field
 from ..inputs import CYCLE
 from ..record import Record, Study, values_from_inputs, inputs_from_values
 from . import base

@@ -22,10 +22,10 @@ import math
 
 import numpy as np
 
-from ..circuit import METERING, design_loads, solve
+from ..circuit import design_loads, solve
 from ..cylinder import ISO3320_RODS_MM
 from .base import Outcome, curve, finding, grade, result
-from .common import AXIS_FIELDS, FLOW_VALVE_FIELDS, HOLDING_FIELDS, build_axis, regime_list, sweep
+from .common import AXIS_FIELDS, FLOW_VALVE_FIELDS, HOLDING_FIELDS, build_axis, sweep
 
 KIND = "rod-pressure"
 TITLE = "Rod-side pressure check"

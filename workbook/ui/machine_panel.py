@@ -28,7 +28,6 @@ import html
 from pathlib import Path
 
 import ipywidgets as W
-import numpy as np
 
 from ..errors import InputError
 from ..inputs import CYCLE

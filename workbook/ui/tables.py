@@ -9,12 +9,12 @@ detail``. Levels are shown as a word and a mark, never by colour alone.
 from __future__ import annotations
 
 import html
-import math
 from typing import Iterable, Mapping
 
 import ipywidgets as W
 
 from .. import CAUTION
+from ..formatting import number
 
 LEVEL_MARK = {"fail": "&#10007; FAIL", "caution": "&#9650; CAUTION", "pass": "&#10003; PASS"}
 LEVEL_STYLE = {
@@ -25,23 +25,6 @@ LEVEL_STYLE = {
 STALE_NOTE = ("<div class='wb-stale-note' style='color:#8a0010;font-weight:bold'>"
               "&#9888; Out of date: an entry above was not accepted, so these are the last valid "
               "results.</div>")
-
-
-def number(value, digits: int = 4) -> str:
-    """Format a number with ``digits`` significant figures; lists shortened."""
-    if value is None:
-        return "–"
-    if isinstance(value, bool):
-        return "yes" if value else "no"
-    if isinstance(value, (list, tuple)):
-        return ", ".join(number(v, digits) for v in value)
-    if isinstance(value, str):
-        return value
-    if not math.isfinite(value):
-        return "∞" if value > 0 else ("–∞" if value < 0 else "–")
-    if value == 0:
-        return "0"
-    return f"{value:.{digits}g}"
 
 
 def caution_html() -> str:
