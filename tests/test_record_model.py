@@ -65,8 +65,10 @@ def test_entries_hold_the_display_unit_of_their_field():
     si = f.parse("2320.6 psi")
     entry = inputs_from_values({"supply": {"relief_cracking": si}})["supply"]["relief_cracking"]
     assert entry["unit"] == f.unit == "bar"
-    # source: pint (workbook.units.from_si) for psi -> bar
-    assert entry["value"] == units.from_si(si, "pressure", "bar")
+    # source: NIST SP 811, 1 psi = 6894.757293168 Pa (exact from the pound and the inch) and
+    # 1 bar = 1e5 Pa: 2320.6 psi = 160.0 bar
+    assert entry["value"] == pytest.approx(2320.6 * 6894.757293168 / 1e5, rel=1e-12)
+    assert entry["value"] == pytest.approx(160.0, abs=0.001)
     assert entry["si"] == si
 
 
