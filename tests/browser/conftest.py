@@ -27,6 +27,7 @@ if str(BROWSER_DIR) not in sys.path:
     sys.path.insert(0, str(BROWSER_DIR))
 
 import lab  # noqa: E402
+
 TEST_TIMEOUT_S = 300
 
 

@@ -21,9 +21,7 @@ import re
 from pathlib import Path
 
 import numpy as np
-
-from lab import (bokeh_figures, colour_distance, dominant_colour, frame_pixels, level_rows, pixels_near,
-                 table_rows, widget)
+from lab import bokeh_figures, colour_distance, dominant_colour, frame_pixels, level_rows, pixels_near, table_rows, widget
 
 #: the mark and word of each level, as the panel must show them
 MARK = {"fail": "\u2717 FAIL", "caution": "\u25b2 CAUTION", "pass": "\u2713 PASS"}

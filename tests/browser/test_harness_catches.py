@@ -9,7 +9,6 @@ from __future__ import annotations
 
 import nbformat
 import pytest
-
 from lab import assert_offline, open_notebook, run_all_cells, widget
 
 KERNELSPEC = {"name": "python3", "display_name": "Python 3 (ipykernel)", "language": "python"}

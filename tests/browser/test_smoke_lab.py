@@ -12,7 +12,6 @@ import time
 
 import nbformat
 import pytest
-
 from lab import (
     assert_no_cell_errors,
     open_notebook,

@@ -33,13 +33,10 @@ from dataclasses import dataclass
 from pathlib import Path
 
 import pytest
-
-from screen import check_screen, expected_evaluation
 from lab import (
     REPO_ROOT,
     assert_no_cell_errors,
     bokeh_columns,
-    canvas_ink,
     open_notebook,
     run_all_cells,
     screenshot,
@@ -52,6 +49,7 @@ from lab import (
     wait_until,
     widget,
 )
+from screen import check_screen, expected_evaluation
 
 NOTEBOOKS = REPO_ROOT / "notebooks"
 DOCS_SCREENSHOT = REPO_ROOT / "docs" / "study-screenshot.png"
