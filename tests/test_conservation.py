@@ -1,6 +1,9 @@
 """Conservation at the solved points, every line from quantities the solver does not define
 in terms of each other: each valve's characteristic is written out by hand here and
-re-evaluated at the solved pressures, the holding valve included, partly open (metering).
+re-evaluated at the solved pressures, the holding valve included, partly open (metering)
+and, on a meter-in sweep from an overrunning to a resisting load, held wide open by its pilot.
+A changed valve law in the solver (pilot ratio, metering gradient, outlet factor, fully-open
+drop, back-pressure gradient, relief gradient) or a changed force balance fails a line here.
 
 By hand (DEVELOPERS.md sign convention, gauge pressures):
 - force balance on the piston: p1 A1 - p3 A3 = F + F_fr extending, F - F_fr retracting;
@@ -9,7 +12,7 @@ By hand (DEVELOPERS.md sign convention, gauge pressures):
 - relief valve: q = Q_p (p - p_crack)/(p_full - p_crack) between cracking and full flow;
 - counterbalance metering (poppet force balance, valve module docstring): q = (p_in - p_open)/g
   with p_open = p_set + k p_out - R p_pilot, k = 1 + R outlet-referenced, 0 vented, while
-  q < (p_in - p_out)/r (not yet held wide open by the pilot);
+  q < (p_in - p_out)/r (not yet held wide open by the pilot), else q = (p_in - p_out)/r;
 - back-pressure valve: q = (p_in - p_out - p_set)/g;
 - sharp orifice flow valve: q = Cd a sqrt(2 dp / rho), Cd 0.61 (Merritt 1967, turbulent).
 """
