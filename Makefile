@@ -46,17 +46,38 @@ demo-records: $(STAMP)
 	$(BIN)/axisbook evaluate notebooks/designs/bin-tipper.toml --out notebooks/records || [ $$? -eq 1 ]
 	$(BIN)/axisbook evaluate notebooks/designs/bin-tipper-rev-b.toml --out notebooks/records
 
-# Mutation testing (not part of `make test`: it runs the fast tests once per mutant). mutmut 2
-# edits the files it mutates, so it runs on a copy of the tree in $(MUTATION_DIR); the
-# configuration is [tool.mutmut] in pyproject.toml. MUTATION_PATCH=<file> limits the run to
-# the lines of a patch. Survivors judged harmless are listed in tests/mutation-equivalent.txt.
+# Mutation testing (not part of `make test`: it runs fast tests once per mutant; see
+# DEVELOPERS.md, "Mutation testing"). mutmut 2 edits the files it mutates, so it runs on a copy
+# of the tree in $(MUTATION_DIR); the configuration is [tool.mutmut] in pyproject.toml.
+#   MUTATION_PATHS=workbook/checks.py,workbook/units.py  mutate only these (default: all of [tool.mutmut])
+#   MUTATION_RUNNER='python -m pytest -x -q ...'         a narrower test command for those modules
+#   MUTATION_PATCH=<file>                                mutate only the lines a patch adds or changes
+#   MUTATION_ONLY='workbook/valve.py:CounterbalanceValve,BackPressureValve workbook/checks.py'
+#                                                        mutate only these functions / classes / modules
+#                                                        (tests/mutation_patch.py writes the patch)
+#   MUTATION_KEEP=1                                      keep the last run's cache: killed mutants stay
+#                                                        killed, only survivors and untested ones re-run
+# Pytest plugins are not loaded (PYTEST_DISABLE_PLUGIN_AUTOLOAD): a run then costs about a second
+# per mutant. The last step counts killed / survived / equivalent per module and lists the
+# survivors that tests/mutation-equivalent.txt does not explain.
 MUTATION_DIR ?= /tmp/axisbook-mutation
+comma := ,
 mutation: $(STAMP)
-	rm -rf $(MUTATION_DIR) && mkdir -p $(MUTATION_DIR)
+	mkdir -p $(MUTATION_DIR)
+	$(if $(MUTATION_KEEP),,rm -f $(MUTATION_DIR)/.mutmut-cache)
+	rm -rf $(MUTATION_DIR)/workbook $(MUTATION_DIR)/tests $(MUTATION_DIR)/notebooks
 	cp -r workbook tests pyproject.toml $(MUTATION_DIR)/
-	cd $(MUTATION_DIR) && PATH=$(abspath $(BIN)):$$PATH $(abspath $(BIN))/mutmut run --no-progress \
-		$(if $(MUTATION_PATCH),--use-patch-file $(abspath $(MUTATION_PATCH))) || true
-	cd $(MUTATION_DIR) && $(abspath $(BIN))/mutmut results
+	mkdir -p $(MUTATION_DIR)/notebooks && cp -r notebooks/designs $(MUTATION_DIR)/notebooks/
+	find $(MUTATION_DIR) -name __pycache__ -prune -exec rm -rf {} +
+	$(if $(MUTATION_ONLY),cd $(MUTATION_DIR) && $(abspath $(BIN))/python tests/mutation_patch.py only.patch $(MUTATION_ONLY))
+	cd $(MUTATION_DIR) && PYTEST_DISABLE_PLUGIN_AUTOLOAD=1 PATH=$(abspath $(BIN)):$$PATH \
+		$(abspath $(BIN))/mutmut run --no-progress --simple-output \
+		$(if $(MUTATION_PATHS),--paths-to-mutate $(MUTATION_PATHS)) \
+		$(if $(MUTATION_RUNNER),--runner "$(MUTATION_RUNNER)") \
+		$(if $(MUTATION_PATCH),--use-patch-file $(abspath $(MUTATION_PATCH))) \
+		$(if $(MUTATION_ONLY),--use-patch-file only.patch) || true
+	cd $(MUTATION_DIR) && $(abspath $(BIN))/python tests/mutation_survivors.py \
+		$(abspath tests/mutation-equivalent.txt) $(subst $(comma), ,$(MUTATION_PATHS))
 
 clean-venv:
 	rm -rf $(VENV)

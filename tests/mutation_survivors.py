@@ -1,0 +1,107 @@
+"""Counts of a mutmut run and the surviving mutants not yet judged harmless.
+
+Run in the directory of the run (``make mutation`` does)::
+
+    python tests/mutation_survivors.py tests/mutation-equivalent.txt [workbook/checks.py ...]
+
+It reads mutmut's cache (``.mutmut-cache``, SQLite), prints killed / survived / equivalent /
+timeout / untested per module, and lists every survivor that no entry of the equivalents
+file matches, with its line before and after the mutation. An entry of the equivalents file
+is one line of four fields separated by `` | ``::
+
+    file | source line (stripped) | mutated line (stripped) | why no test can or need tell it apart
+
+Lines that start with ``#`` and blank lines are comments. An entry matches a survivor of
+that file whose line, before and after the mutation, is the same text with its white space
+removed; so an entry keeps matching when the line moves. Give the module paths to count only
+those (default: every module in the cache).
+
+Not a test module (its name does not start with ``test_``); importing it runs nothing.
+"""
+
+from __future__ import annotations
+
+import collections
+import pathlib
+import sqlite3
+import sys
+
+STATUS = {"ok_killed": "killed", "bad_survived": "survived", "bad_timeout": "timeout",
+          "ok_suspicious": "suspicious", "untested": "untested", "skipped": "skipped"}
+
+
+def _squash(text: str) -> str:
+    return "".join(text.split())
+
+
+def read_equivalents(path) -> dict:
+    """``{(file, squashed source line, squashed mutated line): why}`` of the equivalents file."""
+    out = {}
+    for n, raw in enumerate(pathlib.Path(path).read_text(encoding="utf-8").splitlines(), 1):
+        if not raw.strip() or raw.lstrip().startswith("#"):
+            continue
+        parts = [p.strip() for p in raw.split(" | ")]
+        if len(parts) != 4 or not parts[3]:
+            raise SystemExit(f"{path}:{n}: an entry needs four fields 'file | line | mutated | why'")
+        out[(parts[0], _squash(parts[1]), _squash(parts[2]))] = parts[3]
+    return out
+
+
+def mutated_line(filename: str, line: str, line_number: int, index: int) -> str:
+    """The text of ``line`` after mutant ``index`` of it (mutmut's own mutation)."""
+    from mutmut import Context, RelativeMutationID, mutate
+
+    source = pathlib.Path(filename).read_text(encoding="utf-8")
+    ctx = Context(source=source, filename=filename,
+                  mutation_id=RelativeMutationID(line=line, index=index, line_number=line_number))
+    new, n = mutate(ctx)
+    if not n:
+        return "?"
+    new_lines = new.split("\n")
+    return new_lines[line_number] if line_number < len(new_lines) else "?"
+
+
+def main(argv) -> int:
+    equivalents = read_equivalents(argv[1]) if len(argv) > 1 else {}
+    only = set(argv[2:])
+    db = sqlite3.connect(".mutmut-cache")
+    rows = db.execute("SELECT s.filename, l.line, l.line_number, m.\"index\", m.status FROM Mutant m "
+                      "JOIN Line l ON m.line = l.id JOIN SourceFile s ON l.sourcefile = s.id "
+                      "ORDER BY s.filename, l.line_number, m.\"index\"").fetchall()
+    counts: dict = collections.defaultdict(collections.Counter)
+    new = []
+    used = set()
+    for filename, line, line_number, index, status in rows:
+        if only and filename not in only:
+            continue
+        word = STATUS.get(status, status)
+        if word in ("survived", "suspicious"):
+            after = mutated_line(filename, line, line_number, index)
+            key = (filename, _squash(line), _squash(after))
+            if key in equivalents:
+                used.add(key)
+                word = "equivalent"
+            else:
+                new.append((filename, line_number + 1, line.strip(), after.strip()))
+        counts[filename][word] += 1
+    total: collections.Counter = collections.Counter()
+    print(f"{'module':<32} {'killed':>7} {'survived':>9} {'equivalent':>11} {'timeout':>8} {'untested':>9}")
+    for filename, c in counts.items():
+        total.update(c)
+        print(f"{filename:<32} {c['killed']:>7} {c['survived'] + c['suspicious']:>9} {c['equivalent']:>11} "
+              f"{c['timeout']:>8} {c['untested']:>9}")
+    print(f"{'total':<32} {total['killed']:>7} {total['survived'] + total['suspicious']:>9} "
+          f"{total['equivalent']:>11} {total['timeout']:>8} {total['untested']:>9}")
+    if new:
+        print(f"\n{len(new)} surviving mutant(s) not in the equivalents file:")
+        for filename, n, before, after in new:
+            print(f"{filename}:{n}\n    - {before}\n    + {after}")
+    stale = [k for k in equivalents if k not in used and (not only or k[0] in only)]
+    if stale and counts:
+        print(f"\n{len(stale)} entr(y/ies) of the equivalents file matched no survivor this run "
+              "(killed now, or the line changed): check and remove them")
+    return 2 if new else 0
+
+
+if __name__ == "__main__":
+    sys.exit(main(sys.argv))
