@@ -58,6 +58,8 @@ def mutated_line(filename: str, line: str, line_number: int, index: int) -> str:
     if not n:
         return "?"
     new_lines = new.split("\n")
+    if len(new_lines) < len(source.split("\n")):
+        return "<line removed>"                     # a decorator taken away
     return new_lines[line_number] if line_number < len(new_lines) else "?"
 
 
