@@ -12,6 +12,7 @@ Sections, in the order a design file lists them:
 ``ratings``    hose and valve pressure ratings, line bores
 ``limits``     the checks' defaults, each with its source, all overridable
 ``study``      the studies' own settings (target flow and drop, sweep range, pilot ratios)
+``motion``     the axis in time: command profile, valve ramps, load table, friction parts, limits
 
 Sources of defaults: ``"common practice"`` (facts of the trade without a citable
 source), ``"from memory"`` (a value recalled but not checked against a source at hand),
@@ -302,6 +303,54 @@ STUDY = Section(
     ),
 )
 
+MOTION = Section(
+    "motion",
+    "Motion in time",
+    (
+        Field("profile", "Command profile", "text", default="",
+              help="moves separated by ';': 'extend' or 'retract' (to the end of the stroke), 'extend to 800 mm', "
+                   "'retract for 2 s', 'stop 0.5 s' (empty: one full stroke out and back, 0.5 s dwell each end)",
+              source="common practice (one full stroke out and back)"),
+        Field("ramp_open", "Directional valve opening ramp", "time", "ms", 100, low=0, low_open=True, high=10000,
+              help="time the directional valve takes to open fully (soft-shift or proportional valve)",
+              source="from memory (soft-shift and proportional valves 50 to 300 ms)"),
+        Field("ramp_close", "Directional valve closing ramp", "time", "ms", 100, low=0, low_open=True, high=10000,
+              help="time the directional valve takes to close fully", source="from memory (as the opening ramp)"),
+        Field("valve_drop", "Directional valve drop at pump flow", "pressure", "bar", 3, low=0, low_open=True,
+              high=100, help="pressure drop of each open path of the directional valve at the pump flow",
+              source="from memory (a directional valve sized to its flow drops 2 to 5 bar)"),
+        Field("load_positions", "Load table positions", "quantity_list", "mm", None, list_dimension="length",
+              low=0, high=20000, optional=True,
+              help="piston positions from the cap end of the load table (empty: the highest load case all along)"),
+        Field("load_forces", "Load table forces", "quantity_list", "kN", None, list_dimension="force",
+              low=-5e4, high=5e4, optional=True,
+              help="load at each table position, positive pushing the rod in (linear between points)"),
+        Field("breakaway", "Breakaway friction", "force", "kN", None, low=0, high=1e5, optional=True,
+              help="static friction the piston must overcome to start (empty: 1.5 times the running friction)",
+              source="from memory (seals break away at 1.2 to 2 times their running friction)"),
+        Field("viscous", "Viscous friction, N s/m", "dimensionless", "", 0, low=0, high=1e7,
+              help="friction per speed, in N s/m (seal and guide drag that grows with speed)",
+              source="from memory (small against the running friction; 0 leaves it out)"),
+        Field("holding_lag", "Holding valve time constant", "time", "ms", 20, low=0, low_open=True, high=1000,
+              help="first-order lag of the counterbalance's opening behind its pilot (poppet and damping orifice)",
+              source="from memory (pilot-operated poppet cartridges respond in a few ms to a few tens of ms; "
+                     "take the data sheet's step response)"),
+        Field("impact_speed", "End-stop impact speed limit", "velocity", "mm/s", 100, low=0, low_open=True,
+              high=5000, help="highest speed at which the piston may reach an end of the stroke",
+              source="user's data sheet (from memory: without end cushioning about 0.1 m/s)"),
+        Field("ramp_periods", "Ramp over natural periods, least", "dimensionless", "", 3, low=0, high=100,
+              help="a ramp shorter than this many periods of the hydraulic natural frequency excites oscillation",
+              source="rule of thumb (from memory)"),
+        Field("oscillation_share", "Sustained oscillation limit", "dimensionless", "%", 10, low=0, low_open=True,
+              high=100, help="speed swing (half peak to peak) while lowering, as a share of the mean lowering "
+                             "speed, above which the lowering hunts",
+              source="common practice (from memory)"),
+        Field("cycle_time", "Time allowed for the profile", "time", "s", None, low=0, low_open=True, high=1e5,
+              optional=True, help="time the machine cycle allows for the whole command profile (empty: each "
+                                  "controlled move against the target speed less its tolerance)"),
+    ),
+)
+
 #: the machine cycle's own inputs (the ``[cycle]`` table of a design file, read by
 #: :mod:`workbook.cycle_file`); machine-level, so not one of the axis sections
 CYCLE = Section(
@@ -351,7 +400,7 @@ CYCLE = Section(
 
 #: every section, in design-file order
 SECTIONS: tuple[Section, ...] = (IDENTITY, CYLINDER, OIL, SUPPLY, FLOW_VALVE, HOLDING, OPERATION, RATINGS, LIMITS,
-                                 STUDY)
+                                 STUDY, MOTION)
 
 #: sections that describe an axis (all but identity); ``study`` holds the studies' own settings
 AXIS_SECTIONS: tuple[Section, ...] = SECTIONS[1:]
@@ -365,4 +414,4 @@ def section(key: str) -> Section:
 
 
 __all__ = ["SECTIONS", "AXIS_SECTIONS", "BY_KEY", "section",
-           "STUDY", "CYCLE", "IDENTITY", "CYLINDER", "OIL", "SUPPLY", "FLOW_VALVE", "HOLDING", "OPERATION", "RATINGS", "LIMITS"]
+           "STUDY", "MOTION", "CYCLE", "IDENTITY", "CYLINDER", "OIL", "SUPPLY", "FLOW_VALVE", "HOLDING", "OPERATION", "RATINGS", "LIMITS"]

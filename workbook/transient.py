@@ -77,7 +77,7 @@ from scipy.sparse import lil_matrix
 
 from .circuit import G_STANDARD, Axis, chamber_modulus
 from .errors import InputError
-from .fluid import P_ATM
+from .fluid import P_ATM, effective_bulk_modulus
 from .restrictor import SharpOrifice
 from .valve import CounterbalanceValve, check_opening
 
@@ -143,6 +143,7 @@ class Trace:
     steps: int = 0
     nfev: int = 0
     njev: int = 0
+    arrived: list = field(default_factory=list)
 
 
 def _positive(name, value, allowed):
@@ -214,6 +215,10 @@ class Model:
             q = float(SharpOrifice(d).flow(dv_drop, self.rho, self.mu).flow)
             d *= math.sqrt(qp / q)
         self.dv = SharpOrifice(d)
+        # its law at this oil state, Q = sign(dp) min(c_l |dp|, c_t sqrt|dp|), both
+        # coefficients read off SharpOrifice.flow itself (one laminar, one turbulent point)
+        self._dv_ct = float(self.dv.flow(1e6, self.rho, self.mu).flow) / 1e3
+        self._dv_cl = float(self.dv.flow(1e-6, self.rho, self.mu).flow) / 1e-6
         r = axis.ratings
         self.v_supply = (math.pi / 4 * r.pressure_line_bore ** 2 * 2.0) if supply_volume is None else supply_volume
         self._build(body_volume, port_volume)
@@ -255,6 +260,9 @@ class Model:
         self.n = self.n_p + 3
         self.cb = isinstance(ax.holding, CounterbalanceValve)
         self.i1, self.i3 = self.side["cap"]["chamber"], self.side["rod"]["chamber"]
+        self._jac_scale = np.full(self.n, 1e4)
+        self._jac_scale[self.i_x], self._jac_scale[self.i_v] = 1e-3, 1e-3
+        self._modulus_layout()
 
     def sparsity(self):
         """Jacobian sparsity: pressures couple along their chains, all with x, v and the pilot."""
@@ -272,100 +280,111 @@ class Model:
         S[self.i_pp, self.i1] = S[self.i_pp, self.i3] = S[self.i_pp, self.i_pp] = 1
         return S.tocsr()
 
-    # ------------------------------------------------------------------ physics
+    # ------------------------------------------------------------------ physics (vectorised)
     def load(self, x):
-        """External force, N: the table at ``x`` plus the weight along the rod."""
-        return float(np.interp(x, self.load_x, self.load_f)) + self.weight
+        """External force, N: the table at ``x`` (m, scalar or array) plus the weight along the rod."""
+        out = np.interp(x, self.load_x, self.load_f) + self.weight
+        return float(out) if np.ndim(out) == 0 else out
 
     def friction(self, v):
-        """Friction force, N, opposing ``v`` (smoothed Stribeck, see the module text)."""
-        level = self.f_run + (self.f_brk - self.f_run) * math.exp(-(v / self.vs) ** 2)
-        return level * math.tanh(v / self.vt) + self.c_visc * v
+        """Friction force, N, opposing ``v`` (m/s, scalar or array; smoothed Stribeck, see the
+        module text)."""
+        v = np.asarray(v, dtype=float)
+        level = self.f_run + (self.f_brk - self.f_run) * np.exp(-(v / self.vs) ** 2)
+        out = level * np.tanh(v / self.vt) + self.c_visc * v
+        return float(out) if out.ndim == 0 else out
 
     def stop_force(self, x, v):
-        """End-stop force, N (positive pushes the rod out)."""
-        L = self.cyl.stroke
-        if x < 0.0:
-            pen = -x
-            return self.k_stop * pen - self.c_stop * v * min(pen / 1e-4, 1.0)
-        if x > L:
-            pen = x - L
-            return -self.k_stop * pen - self.c_stop * v * min(pen / 1e-4, 1.0)
-        return 0.0
+        """End-stop force, N (positive pushes the rod out), smoothed: the penetration beyond
+        either end enters as ``(e + sqrt(e² + δ²))/2`` with δ = 1 µm (C∞, zero far inside the
+        stroke), the damper engaging over the first 0.1 mm."""
+        x = np.asarray(x, dtype=float)
+        v = np.asarray(v, dtype=float)
+        d = 1e-6
+        e0, e1 = -x, x - self.cyl.stroke
+        pen0 = 0.5 * (e0 + np.sqrt(e0 * e0 + d * d))
+        pen1 = 0.5 * (e1 + np.sqrt(e1 * e1 + d * d))
+        s0, s1 = pen0 / (pen0 + 1e-4), pen1 / (pen1 + 1e-4)
+        out = self.k_stop * (pen0 - pen1) - self.c_stop * v * (s0 + s1)
+        return float(out) if out.ndim == 0 else out
 
     def volumes(self, x):
+        """Volume of every node, m³, at piston position ``x`` (m; scalar or array of k)."""
         c = self.cyl
-        xc = min(max(x, 0.0), c.stroke)
-        vol = self.vol0.copy()
-        vol[self.i1] += c.a1 * xc
-        vol[self.i3] += c.a3 * (c.stroke - xc)
+        x = np.asarray(x, dtype=float)
+        vol = np.repeat(self.vol0[:, None], x.size, axis=1) if x.ndim else self.vol0.copy()
+        vol[self.i1] = vol[self.i1] + c.a1 * np.clip(x, 0.0, c.stroke)
+        vol[self.i3] = vol[self.i3] + c.a3 * (c.stroke - np.clip(x, 0.0, c.stroke))
         return vol
 
     def moduli(self, p, x):
-        """Effective modulus of every node, Pa, softened near vapour pressure."""
+        """Effective modulus of every node, Pa (``p`` shape (n_p,) or (n_p, k)), softened near
+        vapour pressure: :func:`workbook.fluid.effective_bulk_modulus` once for all nodes, each
+        with its line share (a chamber whose line it holds: line over line plus swept volume,
+        as :func:`workbook.circuit.chamber_modulus`; a line node and the pump line: 1; a valve
+        body: 0)."""
         if self.modulus is not None:
-            e = np.full(self.n_p, self.modulus)
+            e = np.full(np.shape(p), self.modulus)
         else:
-            e = np.empty(self.n_p)
-            e[0] = self._line_modulus(p[0])
-            for s, d in self.side.items():
-                for i in {d["chamber"], d["line"], d["port"]}:
-                    if i == d["chamber"]:
-                        e[i] = float(chamber_modulus(self.axis, s, p[i], x)) if not d["hv"] else self._oil(p[i])
-                    elif i == d["line"]:
-                        e[i] = self._line_modulus(p[i], s)
-                    else:
-                        e[i] = self._oil(p[i])
-        # below cavity_abs + 0.5 bar the column softens (a void forms rather than tension)
+            share = np.broadcast_to(self._share0[:, None] if np.ndim(p) == 2 else self._share0, np.shape(p)).copy()
+            c = self.cyl
+            xc = np.clip(x, 0.0, c.stroke)
+            for i, side, vline in self._merged:
+                swept = c.a1 * xc if side == "cap" else c.a3 * (c.stroke - xc)
+                share[i] = vline / np.maximum(swept + vline, 1e-12) * self._k_scale[i]
+            e = effective_bulk_modulus(self.axis.oil.bulk_modulus, np.maximum(p, 0.0), self.axis.air_content,
+                                       share, self._k_ref)
         soft = 0.5 * (1.0 + np.tanh((p - self.pcav - 0.1 * _BAR) / (0.05 * _BAR)))
         return e * np.maximum(soft, 1e-6)
 
-    def _oil(self, p):
-        from .fluid import effective_bulk_modulus
-        return float(effective_bulk_modulus(self.axis.oil.bulk_modulus, p, self.axis.air_content))
-
-    def _line_modulus(self, p, side="cap"):
-        from .fluid import effective_bulk_modulus
+    def _modulus_layout(self):
+        """Line shares of the nodes and one reference line stiffness for the single call of
+        :func:`effective_bulk_modulus` (a share over K_side = share·(K_ref/K_side) over K_ref)."""
         r = self.axis.ratings
-        return float(effective_bulk_modulus(self.axis.oil.bulk_modulus, p, self.axis.air_content, 1.0,
-                                            r.line_modulus(side)))
+        self._k_ref = r.line_modulus("cap")
+        self._share0 = np.zeros(self.n_p)
+        self._k_scale = np.ones(self.n_p)
+        self._merged = []
+        self._share0[0] = 1.0                              # the pump line: all of it a line
+        for s, d in self.side.items():
+            scale = self._k_ref / r.line_modulus(s)
+            self._k_scale[d["chamber"]] = scale
+            if d["line"] != d["chamber"]:
+                self._share0[d["line"]] = scale            # a line node: all line
+            else:
+                self._merged.append((d["chamber"], s, d["line_volume"]))
 
     def flows(self, p, pp, u):
-        """Net flow into every pressure node, m³/s, at node pressures ``p`` (Pa), lagged
-        pilot ``pp`` and directional valve opening ``u`` (signed, +1 extend)."""
+        """Net flow into every pressure node, m³/s, at node pressures ``p`` (Pa; (n_p,) or
+        (n_p, k)), lagged pilot ``pp`` and directional valve opening ``u`` (a signed scalar,
+        +1 extend). Each valve law is called once on all columns."""
         ax = self.axis
-        q = np.zeros(self.n_p)
+        q = np.zeros(np.shape(p))
         ps, pt = p[0], self.pt
-        q[0] += ax.supply.flow - float(ax.supply.relief.flow(ps, pt))
+        q[0] = ax.supply.flow - ax.supply.relief.flow(ps, pt)
         a = abs(u)
+        if a > 0.0:
+            cap, rod = self.side["cap"]["port"], self.side["rod"]["port"]
+            inlet, outlet = (cap, rod) if u > 0 else (rod, cap)
+            dp = np.stack((ps - p[inlet], p[outlet] - pt))
+            adp = np.abs(dp)
+            qd = a * np.sign(dp) * np.minimum(self._dv_cl * adp, self._dv_ct * np.sqrt(adp))
+            q[inlet] += qd[0]
+            q[0] -= qd[0]
+            q[outlet] -= qd[1]
         for s, d in self.side.items():
-            inlet = (u > 0) == (s == "cap")
-            src = ps if inlet else pt
             port = d["port"]
-            if a > 0.0:
-                dp = src - p[port]
-                qd = a * math.copysign(float(self.dv.flow(abs(dp), self.rho, self.mu).flow), dp)
-                q[port] += qd
-                if inlet:
-                    q[0] -= qd
             if d["bleed"]:
-                qb = float(ax.flow_valve.forward_flow(p[port] - pt, self.rho, self.mu, self.opening))
-                q[port] -= qb
+                q[port] -= ax.flow_valve.forward_flow(p[port] - pt, self.rho, self.mu, self.opening)
             if d["fv"]:
                 # forward towards the chamber (meter-in) or from it towards the tank (meter-out)
                 a_, b_ = (port, d["line"]) if ax.arrangement == "meter-in" else (d["line"], port)
-                qf = float(ax.flow_valve.flow(p[a_] - p[b_], self.rho, self.mu, self.opening))
+                qf = ax.flow_valve.flow(p[a_] - p[b_], self.rho, self.mu, self.opening)
                 q[a_] -= qf
                 q[b_] += qf
             if d["hv"]:
-                other = p[self.i3 if s == "cap" else self.i1]
-                h = ax.holding
                 pc, pl = p[d["chamber"]], p[d["line"]]
-                if self.cb:
-                    qh = float(h.flow(pc, pp, pl))
-                else:
-                    qh = float(h.flow(pc, pl))
-                del other
+                qh = ax.holding.flow(pc, pp, pl) if self.cb else ax.holding.flow(pc, pl)
                 q[d["chamber"]] -= qh
                 q[d["line"]] += qh
         return q
@@ -373,32 +392,55 @@ class Model:
     def pilot_target(self, p):
         """The pressure the counterbalance pilot follows: the opposite chamber's."""
         if not self.cb:
-            return 0.0
+            return 0.0 * p[0]
         return p[self.i3] if self.axis.holding_side == "cap" else p[self.i1]
 
     def rhs(self, t, y, u_of_t):
+        """dy/dt for state ``y`` of shape (n,) or (n, k) (k states at once, for the Jacobian)."""
         p = y[:self.n_p]
         x, v, pp = y[self.i_x], y[self.i_v], y[self.i_pp]
         u = u_of_t(t)
         c = self.cyl
         q = self.flows(p, pp, u)
-        xc_in = 0.0 <= x <= c.stroke
-        vel = v if xc_in else 0.0
-        q[self.i1] -= c.a1 * vel
-        q[self.i3] += c.a3 * vel
-        vol = self.volumes(x)
-        e = self.moduli(p, x)
-        dy = np.empty(self.n)
-        dy[:self.n_p] = e / vol * q
+        q[self.i1] -= c.a1 * v
+        q[self.i3] += c.a3 * v
+        dy = np.empty(np.shape(y))
+        dy[:self.n_p] = self.moduli(p, x) / self.volumes(x) * q
         force = p[self.i1] * c.a1 - p[self.i3] * c.a3 - self.load(x) - self.friction(v) + self.stop_force(x, v)
         dy[self.i_x] = v
         dy[self.i_v] = force / self.m
         dy[self.i_pp] = (self.pilot_target(p) - pp) / self.lag
         return dy
 
+    def jacobian(self, t, y, u_of_t):
+        """Dense Jacobian of :meth:`rhs` by forward differences, all n columns in one
+        vectorised call (n is 7 to 10: a dense LU beats a sparse one at this size)."""
+        h = _SQRT_EPS * np.maximum(np.abs(y), self._jac_scale)
+        Y = np.repeat(y[:, None], self.n + 1, axis=1)
+        Y[np.arange(self.n), np.arange(1, self.n + 1)] += h
+        F = self.rhs(t, Y, u_of_t)
+        return (F[:, 1:] - F[:, :1]) / h
+
     def energy(self, y):
         """Kinetic energy, J (the hydraulic spring energy is in the tests, by hand)."""
         return 0.5 * self.m * y[self.i_v] ** 2
+
+    def natural_frequency(self, x, p_cap=None, p_rod=None):
+        """Merritt's ``w0 = sqrt((E1 A1²/V1 + E3 A3²/V3)/m)``, rad/s, at position ``x`` with the
+        model's own node volumes (the chambers and what they hold) and moduli."""
+        c = self.cyl
+        y = initial_state(self, float(x))
+        p = y[:self.n_p].copy()
+        if p_cap is not None:
+            p[self.i1] = p_cap
+        if p_rod is not None:
+            p[self.i3] = p_rod
+        e = self.moduli(p, float(x))
+        vol = self.volumes(float(x))
+        return math.sqrt((e[self.i1] * c.a1 ** 2 / vol[self.i1] + e[self.i3] * c.a3 ** 2 / vol[self.i3]) / self.m)
+
+
+_SQRT_EPS = math.sqrt(np.finfo(float).eps)
 
 
 def _ramp(u0, u1, t0, tr):
@@ -420,13 +462,16 @@ def check_profile(profile: Sequence[Move], stroke: float):
 
 
 def simulate(model: Model, profile: Sequence[Move], x0: float = 0.0, v0: float = 0.0, y0=None,
-             rtol: float = 1e-6, atol_p: float = 1.0, method: str = "BDF", max_step: float = 0.05,
-             settle: float | None = None) -> Trace:
+             rtol: float = 1e-5, atol_p: float = 100.0, method: str = "BDF", max_step: float = math.inf,
+             settle: float | None = None, max_move: float = 600.0) -> Trace:
     """Integrate the command ``profile`` from ``x0`` (m) at rest (or from state ``y0``).
 
     Each move is one ``solve_ivp`` call; a target move stops on the event ``x = target``
     (or the end of the stroke); a duration move runs its time. The next move ramps the valve
-    from where the last one left it. Returns a :class:`Trace`."""
+    from where the last one left it. A stiff ``method`` (BDF, Radau, LSODA) gets the dense
+    Jacobian of :meth:`Model.jacobian`; an explicit one (RK45, for the benchmark) none.
+    ``max_move`` (s) ends a target move that never arrives (a stalled axis). Returns a
+    :class:`Trace`."""
     c = model.cyl
     check_profile(profile, c.stroke)
     if not (-1e-12 <= x0 <= c.stroke + 1e-12):
@@ -437,9 +482,9 @@ def simulate(model: Model, profile: Sequence[Move], x0: float = 0.0, v0: float =
     t0, u_prev = 0.0, 0.0
     atol = np.full(model.n, atol_p)
     atol[model.i_x], atol[model.i_v], atol[model.i_pp] = 1e-7, 1e-6, atol_p
-    jac = model.sparsity() if method in ("BDF", "Radau") else None
+    stiff = method in ("BDF", "Radau", "LSODA")
     ts, ys, us = [np.array([0.0])], [y[:, None]], [np.array([0.0])]
-    trace_end, impacts = [], []
+    trace_end, impacts, arrived = [], [], []
     steps = nfev = njev = 0
     for mv in profile:
         sign = {"extend": 1.0, "retract": -1.0, "stop": 0.0}[mv.kind]
@@ -455,8 +500,8 @@ def simulate(model: Model, profile: Sequence[Move], x0: float = 0.0, v0: float =
             reached.terminal = True
             reached.direction = 1.0
             events.append(reached)
-        t_end = t0 + (mv.duration if mv.duration is not None else 600.0)
-        kw = dict(jac_sparsity=jac) if jac is not None else {}
+        t_end = t0 + (mv.duration if mv.duration is not None else max_move)
+        kw = dict(jac=model.jacobian) if stiff else {}
         sol = solve_ivp(model.rhs, (t0, t_end), y, method=method, args=(u_fun,), rtol=rtol, atol=atol,
                         events=events or None, max_step=max_step, **kw)
         if sol.status < 0:
@@ -468,8 +513,10 @@ def simulate(model: Model, profile: Sequence[Move], x0: float = 0.0, v0: float =
         ys.append(sol.y[:, 1:])
         us.append(np.array([u_fun(t) for t in sol.t[1:]]))
         y = sol.y[:, -1].copy()
-        if events and sol.t_events[0].size:
+        hit = bool(events and sol.t_events[0].size)
+        if hit and abs(goal - (c.stroke if sign > 0 else 0.0)) <= 2e-6:
             impacts.append(abs(float(sol.y_events[0][0][model.i_v])))
+        arrived.append(hit or mv.kind == "stop")
         t0 = float(sol.t[-1])
         u_prev = u_fun(t0)
         trace_end.append(t0)
@@ -477,7 +524,104 @@ def simulate(model: Model, profile: Sequence[Move], x0: float = 0.0, v0: float =
     Y = np.concatenate(ys, axis=1)
     return Trace(t=t, x=Y[model.i_x], v=Y[model.i_v], p1=Y[model.i1], p3=Y[model.i3], ps=Y[0], pilot=Y[model.i_pp],
                  u=np.concatenate(us), names=model.names, nodes=Y[:model.n_p], move_end=trace_end, impacts=impacts,
-                 steps=steps, nfev=nfev, njev=njev)
+                 steps=steps, nfev=nfev, njev=njev, arrived=arrived)
+
+
+def parse_profile(text: str, stroke: float, ramp_open: float = RAMP_DEFAULT, ramp_close: float = RAMP_DEFAULT,
+                  dwell: float = 0.5) -> tuple[Move, ...]:
+    """The moves of a ``motion.profile`` text: moves separated by ``;``, each ``extend`` or
+    ``retract`` (to the end of the stroke), ``extend to 800 mm`` (a target from the cap
+    end), ``retract for 2 s`` (a duration) or ``stop 0.5 s``. Empty: one full stroke out and
+    back with ``dwell`` (s) at each end. A move opens the valve over ``ramp_open`` (s); a stop
+    closes it over ``ramp_close``.
+
+    >>> [(m.kind, m.target, m.duration) for m in parse_profile("extend to 800 mm; stop 0.2 s; retract", 1.2)]
+    [('extend', 0.8, None), ('stop', None, 0.2), ('retract', 0.0, None)]
+    >>> parse_profile("jump 2 s", 1.2)
+    Traceback (most recent call last):
+    ...
+    workbook.errors.InputError: motion.profile: got 'jump 2 s'; allowed: moves separated by ';', each 'extend', 'retract' (optionally 'to <position>' or 'for <time>') or 'stop <time>', e.g. 'extend to 800 mm; stop 0.5 s; retract'
+    """
+    from . import units
+
+    allowed = ("moves separated by ';', each 'extend', 'retract' (optionally 'to <position>' or 'for <time>') "
+               "or 'stop <time>', e.g. 'extend to 800 mm; stop 0.5 s; retract'")
+    _positive("motion.ramp_open", ramp_open, "a ramp time greater than 0 s")
+    _positive("motion.ramp_close", ramp_close, "a ramp time greater than 0 s")
+    text = (text or "").strip()
+    if not text:
+        return (Move("extend", target=stroke, ramp=ramp_open), Move("stop", duration=dwell, ramp=ramp_close),
+                Move("retract", target=0.0, ramp=ramp_open), Move("stop", duration=dwell, ramp=ramp_close))
+    moves = []
+    for item in text.split(";"):
+        words = item.strip().split(None, 1)
+        if not words:
+            continue
+        kind = words[0].lower()
+        rest = words[1].strip() if len(words) > 1 else ""
+        if kind not in MOVES:
+            raise InputError("motion.profile", repr(item.strip()), allowed)
+        ramp = ramp_close if kind == "stop" else ramp_open
+        try:
+            if kind == "stop":
+                dur = units.to_si(rest[4:] if rest.lower().startswith("for ") else rest, "time", "motion.profile")
+                moves.append(Move("stop", duration=dur, ramp=ramp))
+            elif not rest:
+                moves.append(Move(kind, target=stroke if kind == "extend" else 0.0, ramp=ramp))
+            elif rest.lower().startswith("to "):
+                x = units.to_si(rest[3:], "length", "motion.profile")
+                moves.append(Move(kind, target=x, ramp=ramp))
+            elif rest.lower().startswith("for "):
+                moves.append(Move(kind, duration=units.to_si(rest[4:], "time", "motion.profile"), ramp=ramp))
+            else:
+                raise InputError("motion.profile", repr(item.strip()), allowed)
+        except InputError as exc:
+            if exc.field == "motion.profile" and exc.allowed == allowed:
+                raise
+            raise InputError("motion.profile", repr(item.strip()), allowed + f" ({exc.allowed})") from None
+    check_profile(moves, stroke)
+    return tuple(moves)
+
+
+def start_position(profile: Sequence[Move], stroke: float) -> float:
+    """Where the profile starts, m: at the cap end when its first motion extends, at the
+    rod end when it retracts."""
+    for mv in profile:
+        if mv.kind != "stop":
+            return 0.0 if mv.kind == "extend" else stroke
+    return 0.0
+
+
+def model_from_values(values, axis: Axis | None = None, **overrides) -> tuple["Model", tuple]:
+    """The model of the axis ``values`` ({section: {field: SI}}) and its command profile.
+
+    The ``motion`` section gives the profile, ramps, directional valve drop, load table,
+    breakaway and viscous friction and the holding valve's lag (defaults when the section
+    is missing); the table is the payload along the stroke (the moving mass's weight along
+    the rod added as for the load cases); without a table, the highest load case (weight
+    included) acts all along. Oil at the cold end of its range (highest pressures).
+    ``axis`` replaces the axis built from ``values`` (a pilot ratio varied, say)."""
+    from .circuit import axis_from_values, design_loads
+    from .inputs import MOTION
+
+    mo = dict(MOTION.defaults())
+    mo.update({k: v for k, v in (values.get("motion") or {}).items()})
+    ax = axis_from_values(values) if axis is None else axis
+    op = values["operation"]
+    stroke = ax.cylinder.stroke
+    xs, fs = mo.get("load_positions"), mo.get("load_forces")
+    if (xs is None) != (fs is None):
+        missing = "motion.load_forces" if fs is None else "motion.load_positions"
+        raise InputError(missing, "nothing", "a list as long as the other half of the load table")
+    if xs is None:
+        xs, fs, incl = (0.0, stroke), (float(np.max(design_loads(op))),) * 2, 0.0
+    else:
+        incl = float(op.get("inclination") or 0.0)
+    profile = parse_profile(mo.get("profile") or "", stroke, mo["ramp_open"], mo["ramp_close"])
+    kw = dict(temperature=op["temp_min"], inclination=incl, breakaway=mo.get("breakaway"),
+              viscous=mo.get("viscous") or 0.0, holding_lag=mo["holding_lag"], dv_drop=mo["valve_drop"])
+    kw.update(overrides)
+    return Model(ax, xs, fs, **kw), profile
 
 
 def initial_state(model: Model, x0: float, v0: float = 0.0):
@@ -501,4 +645,5 @@ def initial_state(model: Model, x0: float, v0: float = 0.0):
 
 
 __all__ = ["Model", "Move", "Trace", "simulate", "default_profile", "initial_state", "check_load_table",
+           "parse_profile", "start_position", "model_from_values",
            "check_profile", "MOVES", "HOLDING_LAG_DEFAULT", "RAMP_DEFAULT"]
