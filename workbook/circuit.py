@@ -312,11 +312,6 @@ class Solution:
         """Heat from throttling: flow valve, holding valve, relief and return line, W."""
         return self.loss_flow_valve + self.loss_holding + self.loss_relief + self.loss_return_line
 
-    @property
-    def q_valve(self) -> np.ndarray:
-        """Alias of ``q_flow_valve``."""
-        return self.q_flow_valve
-
 
 # --------------------------------------------------------------------------- helpers
 def _check_drop(check: CheckValve | None, q):
@@ -1087,7 +1082,7 @@ def _axis_from_values(values: Mapping[str, Mapping]) -> Axis:
     the pump flow; a minimum working drop at least the compensator drop; a pilot ratio
     above zero; temperatures in the oil's validity, cold not above warm. A counterbalance
     set below the load-holding pressure is reported by :func:`workbook.checks.evaluate`
-    (rule ``H-CB-HOLDS``) rather than refused, so the study can show what happens.
+    (rule ``H-HOLDS``) rather than refused, so the study can show what happens.
 
     The compensated setting is taken at the oil density at 40 °C (the ISO 3448 reference).
     """

@@ -30,7 +30,6 @@ import textwrap
 from pathlib import Path
 
 from . import CAUTION, __version__, safetext
-from .formatting import number as _num
 
 PROG = "axisbook"
 EXIT_OK, EXIT_CHECK, EXIT_INPUT, EXIT_DEFECT = 0, 1, 2, 3
@@ -141,7 +140,8 @@ def build_parser() -> argparse.ArgumentParser:
     p.add_argument("--study", metavar="KIND", nargs="+", action="extend", dest="studies",
                    help="run only these studies (axis-check, restrictor-sizing, speed-vs-load, rod-pressure, "
                         "counterbalance, and machine-cycle for the design's [cycle]; give DESIGN.toml first); "
-                        "default: all of them (the machine cycle only without --axis)")
+                        "default: all of them (the machine cycle only without --axis); axis-motion, the "
+                        "stroke simulated in time, runs only when named here")
     p.add_argument("--markdown", action="store_true", help="also write a Markdown review copy of each record")
     p.set_defaults(run=_cmd_evaluate)
 
@@ -169,20 +169,6 @@ def build_parser() -> argparse.ArgumentParser:
                    help="absolute floor in each result's display unit (default: 1e-9)")
     p.set_defaults(run=_cmd_recheck)
     return parser
-
-
-# ---------------------------------------------------------------------------- formatting
-def finding_line(study: str, f: dict) -> str:
-    """One line of the evaluate summary for a finding.
-
-    >>> finding_line("axis-check", {"level": "fail", "rule_id": "P-ROD-RATING", "statement": "Rod side within rating",
-    ...     "value": 342.1, "limit": 210.0, "unit": "bar", "source": "user's data sheet"})
-    "  FAIL     P-ROD-RATING [axis-check] Rod side within rating: 342.1 bar vs limit 210 bar (source: user's data sheet)"
-    """
-    unit = f" {f['unit']}" if f.get("unit") else ""
-    statement = f["statement"].rstrip().rstrip(".")
-    return (f"  {f['level'].upper():<8} {f['rule_id']} [{study}] {statement}: "
-            f"{_num(f.get('value'))}{unit} vs limit {_num(f.get('limit'))}{unit} (source: {f['source']})")
 
 
 def axis_summary(record, path: Path) -> list[str]:
@@ -462,5 +448,5 @@ def _quiet_stdout() -> None:
         pass
 
 
-__all__ = ["main", "build_parser", "finding_line", "axis_summary", "machine_summary", "wrap_lines",
+__all__ = ["main", "build_parser", "axis_summary", "machine_summary", "wrap_lines",
            "EXIT_OK", "EXIT_CHECK", "EXIT_INPUT", "EXIT_DEFECT"]

@@ -27,7 +27,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
-from typing import Any, Iterable, Mapping
+from typing import Any, Mapping
 
 from .errors import InputError
 from . import safetext, units
@@ -320,8 +320,4 @@ def _fmt(x: float, digits: int = 6) -> str:
     return f"{x:.{digits}g}"
 
 
-def sections_by_key(sections: Iterable[Section]) -> dict[str, Section]:
-    return {s.key: s for s in sections}
-
-
-__all__ = ["Field", "Section", "NON_QUANTITY", "sections_by_key"]
+__all__ = ["Field", "Section", "NON_QUANTITY"]

@@ -66,8 +66,3 @@ def sweep(values, n: int | None = None) -> np.ndarray:
 def regime_list(sol) -> list[str]:
     """The regime label of every point, as plain strings."""
     return np.asarray(sol.regime).ravel().astype(str).tolist()
-
-
-def mid_temperature(values) -> float:
-    op = values["operation"]
-    return 0.5 * (op["temp_min"] + op["temp_max"])
