@@ -12,6 +12,7 @@ HERE = Path(__file__).resolve().parent
 sys.path.insert(0, str(HERE))
 sys.path.insert(0, str(HERE.parent))
 
+import bench_motion  # noqa: E402
 import bench_panels  # noqa: E402
 import bench_solver  # noqa: E402
 
@@ -20,6 +21,8 @@ def main() -> int:
     bench_solver.main()
     print()
     bench_panels.main()
+    print()
+    bench_motion.main()
     return 0
 
 

@@ -17,6 +17,7 @@ KINDS = {
     "rod-pressure": "rod_pressure",
     "counterbalance": "counterbalance",
     "axis-check": "axis_check",
+    "axis-motion": "motion",
 }
 
 

@@ -37,6 +37,10 @@ from ..record import Record, verdict
 
 #: the studies of an axis, in record order (the axis check first: its words lead the verdict)
 DEFAULT_STUDIES = ("axis-check", "restrictor-sizing", "speed-vs-load", "rod-pressure", "counterbalance")
+#: studies run only when asked for (``axisbook evaluate --study axis-motion``): the motion
+#: study simulates in time, 1 to 20 s an axis on the demo (a hunting lowering is slow to
+#: integrate), too slow for every panel update and every evaluation of the test suite
+ON_REQUEST = ("axis-motion",)
 
 
 def not_applicable(kind: str, values) -> str | None:
@@ -115,4 +119,4 @@ def evaluate(values, kinds: Sequence[str] = DEFAULT_STUDIES, *, raise_refusal: b
     return ev
 
 
-__all__ = ["evaluate", "AxisEvaluation", "DEFAULT_STUDIES", "not_applicable"]
+__all__ = ["evaluate", "AxisEvaluation", "DEFAULT_STUDIES", "ON_REQUEST", "not_applicable"]
