@@ -13,8 +13,10 @@ is one line of four fields separated by `` | ``::
 
 Lines that start with ``#`` and blank lines are comments. An entry matches a survivor of
 that file whose line, before and after the mutation, is the same text with its white space
-removed; so an entry keeps matching when the line moves. Give the module paths to count only
-those (default: every module in the cache).
+removed; so an entry keeps matching when the line moves. A field with ``*`` is a pattern
+(:func:`fnmatch.fnmatchcase`, ``*`` any text, ``?`` one character) for a kind of mutant, e.g.
+every f-string wrapped whole in ``XX``; keep patterns that narrow. Give the module paths to
+count only those (default: every module in the cache).
 
 Not a test module (its name does not start with ``test_``); importing it runs nothing.
 """
@@ -22,6 +24,7 @@ Not a test module (its name does not start with ``test_``); importing it runs no
 from __future__ import annotations
 
 import collections
+import fnmatch
 import pathlib
 import sqlite3
 import sys
@@ -45,6 +48,23 @@ def read_equivalents(path) -> dict:
             raise SystemExit(f"{path}:{n}: an entry needs four fields 'file | line | mutated | why'")
         out[(parts[0], _squash(parts[1]), _squash(parts[2]))] = parts[3]
     return out
+
+
+def _match(equivalents: dict, filename: str, before: str, after: str):
+    """The key of the entry that explains this survivor, or None.
+
+    >>> eq = {("a.py", "x=1", "x=2"): "why", ("a.py", "*", 'f"XX*XX"'): "wording"}
+    >>> _match(eq, "a.py", "x=1", "x=2"), _match(eq, "a.py", 'f"a{b}"', 'f"XXa{b}XX"'), _match(eq, "a.py", "y", "z")
+    (('a.py', 'x=1', 'x=2'), ('a.py', '*', 'f"XX*XX"'), None)
+    """
+    key = (filename, before, after)
+    if key in equivalents:
+        return key
+    for k in equivalents:
+        if k[0] == filename and ("*" in k[1] or "*" in k[2]) and fnmatch.fnmatchcase(before, k[1]) \
+                and fnmatch.fnmatchcase(after, k[2]):
+            return k
+    return None
 
 
 def mutated_line(filename: str, line: str, line_number: int, index: int) -> str:
@@ -79,8 +99,8 @@ def main(argv) -> int:
         word = STATUS.get(status, status)
         if word in ("survived", "suspicious"):
             after = mutated_line(filename, line, line_number, index)
-            key = (filename, _squash(line), _squash(after))
-            if key in equivalents:
+            key = _match(equivalents, filename, _squash(line), _squash(after))
+            if key is not None:
                 used.add(key)
                 word = "equivalent"
             else:
