@@ -65,6 +65,17 @@ STUDIES = {
         "back-pressure valve costs its setting times the flow as heat all the time.",
         'panel.set("holding.setting", "35 bar")',
     ),
+    "5-axis-in-motion.ipynb": (
+        "axis-motion", "tip", "The axis in motion",
+        "One full stroke out and back of the tip axis simulated in time on the same valve laws as the "
+        "steady studies: position and speed, chamber and pump-line pressures against the ratings, the "
+        "counterbalance pilot, end-stop impact, ramps against the natural frequency, and the lowering "
+        "over the pilot ratios.",
+        "Peaks at the start, stop and reversal of a move and dips towards cavitation while decelerating "
+        "are what the steady studies cannot show. The lift axis takes about 20 s to simulate (its lowering "
+        "hunts); the tip about 1 s.",
+        'panel.set("motion.ramp_open", "200 ms")',
+    ),
     "6-machine-cycle.ipynb": (
         "machine-cycle", None, "Machine cycle and heat",
         "The bin tipper's cycle over both axes on the one power unit (lift the full bin, tip, tip back, "
