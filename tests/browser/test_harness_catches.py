@@ -1,7 +1,7 @@
 """The harness must be able to say no.
 
 These tests feed it broken notebooks and check that the failure is seen:
-a cell that raises, and a notebook that loads BokehJS from a CDN (the
+a cell that raises, a widget that does not display, and a notebook that loads BokehJS from a CDN (the
 request is blocked, recorded, and the figure does not render).
 """
 
@@ -29,6 +29,20 @@ def test_run_all_cells_reports_a_raising_cell(lab_server, page, browser_log):
     with pytest.raises(AssertionError, match=r"cell 1: ZeroDivisionError"):
         run_all_cells(page)
     browser_log.assert_clean()
+
+
+def test_run_all_cells_fails_on_a_widget_that_does_not_display(lab_server, page, browser_log):
+    """A widget output whose model the front end never gets shows "Error displaying widget:
+    model not found"; run_all_cells fails on it at once (no re-run hides a first-open failure)."""
+    name = lab_server.write_notebook(
+        notebook("from IPython.display import display\n"
+                 "display({'application/vnd.jupyter.widget-view+json': "
+                 "{'model_id': '0' * 32, 'version_major': 2, 'version_minor': 0}}, raw=True)"),
+        "no-model.ipynb",
+    )
+    open_notebook(page, lab_server, name)
+    with pytest.raises(AssertionError, match="a widget did not display on first open"):
+        run_all_cells(page)
 
 
 @pytest.mark.allow_offsite

@@ -264,6 +264,20 @@ def test_study_panel_in_the_browser(lab_server, page, browser_log, study_folder)
     # 5 (end). the review copy, served by the lab server, in the browser -------
     rel = record_html.relative_to(lab_server.root_dir).as_posix()
     url = f"{lab_server.url}files/{urllib.parse.quote(rel)}?token={lab_server.token}"
+    # in a tab of its own, as a reviewer opens it: navigating the lab's page away would abort
+    # the lab's own polling requests mid-flight (reported as failed requests)
+    review = page.context.new_page()
+    review.on("console", lambda m: browser_log.console.append((m.type, m.text)))
+    review.on("pageerror", lambda e: browser_log.page_errors.append(str(e)))
+    try:
+        _check_review_copy(review, url, entry_rec, sources, study, browser_log)
+    finally:
+        review.close()
+
+
+def _check_review_copy(page, url, entry_rec, sources, study, browser_log) -> None:
+    """The exported review copy in the browser: caution, title, every finding's source, at most
+    eight screens tall, the verdict first."""
     response = page.goto(url, wait_until="load")
     assert response is not None and response.ok, response and response.status
     text = page.locator("body").inner_text()
