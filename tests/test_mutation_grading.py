@@ -66,10 +66,12 @@ def test_a_finding_in_its_display_unit():
     assert (share["value"], share["limit"]) == (pytest.approx(15.0), pytest.approx(10.0))
     plain = base.finding("S", "s", "q", 0.15, 0.1, "dimensionless", "", "fail", "src")
     assert (plain["value"], plain["limit"]) == (0.15, 0.1)
-    with pytest.raises(InternalDefect, match="finding P-X"):
+    with pytest.raises(InternalDefect) as err:
         base.finding("P-X", "s", "q", float("nan"), 1.0, "pressure", "bar", "fail", "src")
-    with pytest.raises(InternalDefect, match="margin"):
+    assert (err.value.where, err.value.what) == ("finding P-X", "a value that is not finite")
+    with pytest.raises(InternalDefect) as err:
         base.finding("P-X", "s", "q", 1.0, 1.0, "pressure", "bar", "fail", "src", margin=float("inf"))
+    assert (err.value.where, err.value.what) == ("finding P-X", "a margin that is not finite")
 
 
 def test_results_in_display_units():
@@ -78,8 +80,9 @@ def test_results_in_display_units():
     assert base.result("Ratio", 1.5, "dimensionless", "x") == {"value": 1.5, "unit": "x", "label": "Ratio"}
     assert base.ratio_result("Share", 0.25) == {"value": 0.25, "unit": "", "label": "Share"}
     assert base.ratio_result("Share", 0.25, percent=True) == {"value": 25.0, "unit": "%", "label": "Share"}
-    with pytest.raises(InternalDefect, match="result Bore"):
+    with pytest.raises(InternalDefect) as err:
         base.result("Bore", float("inf"), "length", "mm")
+    assert (err.value.where, err.value.what) == ("result Bore", "a value that is not finite")
 
 
 def test_an_alternative_is_at_worst_a_caution():
