@@ -13,10 +13,11 @@ is one line of four fields separated by `` | ``::
 
 Lines that start with ``#`` and blank lines are comments. An entry matches a survivor of
 that file whose line, before and after the mutation, is the same text with its white space
-removed; so an entry keeps matching when the line moves. A field with ``*`` is a pattern
-(:func:`fnmatch.fnmatchcase`, ``*`` any text, ``?`` one character) for a kind of mutant, e.g.
-every f-string wrapped whole in ``XX``; keep patterns that narrow. Give the module paths to
-count only those (default: every module in the cache).
+removed; so an entry keeps matching when the line moves. A field that starts or ends with
+``*`` is a pattern
+(:func:`fnmatch.fnmatchcase`, ``*`` any text, ``?`` one character) matched against the
+stripped line with its spaces kept, for a kind of mutant, e.g. prose wrapped in ``XX``; keep
+patterns narrow. Give the module paths to count only those (default: every module in the cache).
 
 Not a test module (its name does not start with ``test_``); importing it runs nothing.
 """
@@ -47,22 +48,31 @@ def read_equivalents(path) -> dict:
         parts = [p.strip() for p in raw.split(" | ")]
         if len(parts) != 4 or not parts[3]:
             raise SystemExit(f"{path}:{n}: an entry needs four fields 'file | line | mutated | why'")
-        out[(parts[0], _squash(parts[1]), _squash(parts[2]))] = parts[3]
+        if _is_pattern(parts[1]) or _is_pattern(parts[2]):
+            out[(parts[0], parts[1], parts[2])] = parts[3]          # a pattern: spaces kept
+        else:
+            out[(parts[0], _squash(parts[1]), _squash(parts[2]))] = parts[3]
     return out
 
 
-def _match(equivalents: dict, filename: str, before: str, after: str):
-    """The key of the entry that explains this survivor, or None.
+def _is_pattern(field: str) -> bool:
+    return field.startswith("*") or field.endswith("*")
 
-    >>> eq = {("a.py", "x=1", "x=2"): "why", ("a.py", "*", 'f"XX*XX"'): "wording"}
-    >>> _match(eq, "a.py", "x=1", "x=2"), _match(eq, "a.py", 'f"a{b}"', 'f"XXa{b}XX"'), _match(eq, "a.py", "y", "z")
-    (('a.py', 'x=1', 'x=2'), ('a.py', '*', 'f"XX*XX"'), None)
+
+def _match(equivalents: dict, filename: str, before: str, after: str):
+    """The key of the entry that explains this survivor (lines stripped, spaces kept), or None.
+
+    >>> eq = {("a.py", "x=1", "x=2"): "why", ("a.py", "*", '*"XX* *XX"*'): "wording"}
+    >>> _match(eq, "a.py", "x = 1", "x = 2"), _match(eq, "a.py", 'f"a {b}"', 'f"XXa {b}XX"')
+    (('a.py', 'x=1', 'x=2'), ('a.py', '*', '*"XX* *XX"*'))
+    >>> _match(eq, "a.py", 'k = "max"', 'k = "XXmaxXX"') is None
+    True
     """
-    key = (filename, before, after)
+    key = (filename, _squash(before), _squash(after))
     if key in equivalents:
         return key
     for k in equivalents:
-        if k[0] == filename and ("*" in k[1] or "*" in k[2]) and fnmatch.fnmatchcase(before, k[1]) \
+        if k[0] == filename and (_is_pattern(k[1]) or _is_pattern(k[2])) and fnmatch.fnmatchcase(before, k[1]) \
                 and fnmatch.fnmatchcase(after, k[2]):
             return k
     return None
@@ -107,7 +117,7 @@ def main(argv) -> int:
             continue
         if word == "survived":
             after = mutated_line(filename, line, line_number, index)
-            key = _match(equivalents, filename, _squash(line), _squash(after))
+            key = _match(equivalents, filename, line.strip(), after.strip())
             if key is not None:
                 used.add(key)
                 word = "equivalent"

@@ -35,7 +35,7 @@ OIL = Oil.from_grade("VG46")
 CYL = Cylinder(0.080, 0.045, 0.6, 210e5)
 QP = 21.6 * LPM
 RATINGS = circuit.Ratings(hose_rating=230 * BAR, valve_rating=250 * BAR, pressure_line_bore=0.008,
-                          return_line_bore=0.010, suction_line_bore=0.020)
+                          return_line_bore=0.010, suction_line_bore=0.020, cap_line_bore=0.010, rod_line_bore=0.007)
 
 
 def _supply(eta=0.8):
@@ -57,6 +57,20 @@ def _axes():
         "bleed-off, extend": circuit.Axis(
             CYL, OIL, _supply(), comp, arrangement="bleed-off", controlled="extend", loads=(2e3, 20e3, 45e3),
             temp_min=283.15, temp_max=323.15, target_speed=0.02, ratings=RATINGS),
+        # held in both directions: no point runs away
+        "meter-out cb cap, retract, held": circuit.Axis(
+            CYL, OIL, _supply(), comp, arrangement="meter-out", controlled="retract",
+            holding=CounterbalanceValve(120 * BAR, 3.0, 2 * BAR / LPM), holding_side="cap",
+            loads=(4e3, 15e3), temp_min=293.15, temp_max=313.15, target_speed=0.05, ratings=RATINGS),
+        # the relief's 172 bar on the 80 mm bore holds 86.5 kN: with 8 kN of friction a 90 kN load
+        # neither moves nor drives the rod back (stalled, by hand); the 5 kN case moves
+        "meter-in compensated, stalls at one load": circuit.Axis(
+            CYL, OIL, _supply(), comp, arrangement="meter-in", controlled="extend", loads=(5e3, 90e3),
+            friction=8e3, target_speed=0.04, ratings=RATINGS),
+        # every load case stalled: the controlled motion never moves
+        "meter-in compensated, stalls at every load": circuit.Axis(
+            CYL, OIL, _supply(), comp, arrangement="meter-in", controlled="extend", loads=(88e3, 92e3),
+            friction=8e3, target_speed=0.04, ratings=RATINGS),
     }
 
 
@@ -126,7 +140,15 @@ def test_runaway_and_stall_shares(case):
     assert tot == 4 * len(axis.loads) * n_temps
     f = found["RUNAWAY"]
     assert f.value == pytest.approx(n / tot, rel=1e-12) and f.limit == 0.0
-    assert (f"{n} of {tot} points run away" in f.detail) if n else f.detail == "no point runs away"
+    if n:
+        # the example is the first point that runs away, in the grid's order
+        k = next(j for j, b in enumerate(bad) if b.any())
+        d, _, s = grid[k]
+        i = np.unravel_index(np.argmax(bad[k]), bad[k].shape)
+        where = f"e.g. {d}, load {float(s.load[i]) / 1e3:g} kN, oil {float(s.temperature[i]) - T0:.0f} degC"
+        assert f.detail == f"{n} of {tot} points run away; {where}"
+    else:
+        assert f.detail == "no point runs away"
     s = next(s for d, o, s in grid if d == axis.controlled and o == 1.0)
     stalled = np.isin(s.regime, (circuit.STALLED, circuit.HELD, circuit.CLOSED, circuit.DRIVEN_BACK))
     assert found["SUPPLY-STALL"].value == pytest.approx(stalled.mean(), rel=1e-12)
@@ -151,8 +173,12 @@ def test_compensator_drop(case):
         return
     s = next(s for d, o, s in grid if d == axis.controlled and o == 1.0)
     moving = s.speed > 0
-    dp = s.dp_flow_valve[moving] if axis.arrangement == "bleed-off" else np.where(moving, s.dp_flow_valve, np.inf)
     f = found["FV-STARVED"]
+    if not moving.any():
+        assert (f.value, f.limit, f.detail) == (0.0, axis.flow_valve.min_drop,
+                                                "the controlled motion does not move at any load")
+        return
+    dp = s.dp_flow_valve[moving]                        # only where the controlled motion moves
     assert f.value == pytest.approx(float(np.min(dp)), rel=1e-12) and f.limit == axis.flow_valve.min_drop
     assert f"{int((s.regime == circuit.STARVED).sum())} starved points" in f.detail
 
@@ -202,6 +228,32 @@ def test_line_velocities(case):
     val, where = _worst(grid, lambda s: (s.q_cylinder_out + s.q_relief + s.q_bleed) / area(0.010))
     f = found["V-RETURN"]
     assert (f.value, f.limit) == (pytest.approx(val, rel=1e-12), 4.0) and where in f.detail
+
+
+def test_port_line_velocities(case):
+    # each port line against the pressure-line limit while it feeds its chamber and the
+    # return-line limit while it drains it; the case nearest its limit is reported (common practice)
+    axis, grid, found = case
+    for side, bore in (("cap", 0.010), ("rod", 0.007)):
+        best = None
+        for d, o, s in grid:
+            feeding_side = "cap" if d == "extend" else "rod"
+            q = s.q_cylinder_in if side == feeding_side else s.q_cylinder_out
+            into = (q > 0) if side == feeding_side else (q < 0)
+            v = np.abs(q) / (math.pi * bore * bore / 4)
+            lim = np.where(into, 6.0, 4.0)
+            ratio = v / lim
+            i = np.unravel_index(np.argmax(ratio), ratio.shape)
+            if best is None or ratio[i] > best[0]:
+                where = (f"{d}, valve {'closed' if o == 0.0 else 'open'}, load {float(s.load[i]) / 1e3:g} kN, "
+                         f"oil {float(s.temperature[i]) - T0:.0f} degC, {s.regime[i]}, "
+                         f"{'feeding' if into[i] else 'draining'} the {side} side")
+                best = (float(ratio[i]), float(v[i]), float(lim[i]), where)
+        f = found[f"V-{side.upper()}-LINE"]
+        assert (f.value, f.limit) == (pytest.approx(best[1], rel=1e-12), best[2])
+        kind = "pressure" if best[2] == 6.0 else "return"
+        assert f.detail == (f"mean velocity in the {side} line, bore {bore * 1e3:g} mm, at: {best[3]}; "
+                            f"limit of a {kind} line")
 
 
 def test_rod_buckling(case):
