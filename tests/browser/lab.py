@@ -821,6 +821,10 @@ _JS_BOKEH_FIGURES = """
       in_wb_plot: !!view.el.closest('.wb-plot'),
       rect: {x: r.x, y: r.y, width: r.width, height: r.height},
       frame: {x0: f.x0, y0: f.y0, x1: f.x1, y1: f.y1},
+      // colours of everything else the frame may show (grids, limit lines, labels, bands)
+      other_colours: [m.outline_line_color].concat(...(m.center || []).map(a => [
+        a.line_color, a.text_color, a.fill_color, a.grid_line_color, a.minor_grid_line_color,
+        a.border_line_color].map(spec))).filter(c => typeof c === 'string'),
       renderers: m.renderers.filter(rr => rr.glyph).map(rr => ({
         name: rr.name, visible: rr.visible, glyph: rr.glyph.type,
         line_alpha: spec(rr.glyph.line_alpha), line_width: spec(rr.glyph.line_width),
@@ -881,13 +885,33 @@ def frame_pixels(page, plot_locator, title: str, inset: int = 3):
     return Image.open(BytesIO(png)).convert("RGB")
 
 
-def pixels_near(image, colour, tolerance: float = 60.0) -> int:
-    """How many pixels of ``image`` lie within ``tolerance`` (RGB distance) of ``colour``."""
+def pixels_near(image, colour, tolerance: float = 60.0, foreign=(), background=None) -> int:
+    """How many pixels of ``image`` lie within ``tolerance`` (RGB distance) of ``colour``.
+
+    With ``foreign`` colours and the ``background``, a pixel closer to a blend of a foreign
+    colour with the background (the anti-aliased edge of a dark red limit line looks pink)
+    than to ``colour`` is not counted."""
     import numpy as np
 
+    def rgb(c):
+        return np.array(hex_rgb(c) if isinstance(c, str) else c, dtype=float)
+
     px = np.asarray(image, dtype=float)
-    target = np.array(hex_rgb(colour) if isinstance(colour, str) else colour, dtype=float)
-    return int((np.linalg.norm(px - target, axis=-1) < tolerance).sum())
+    near = np.linalg.norm(px - rgb(colour), axis=-1)
+    hit = near < tolerance
+    if background is not None:
+        bg = rgb(background)
+        for other in foreign:
+            try:
+                f = rgb(other)
+            except ValueError:       # a colour PIL cannot read: nothing to discount
+                continue
+            span = bg - f
+            if not span.any():
+                continue
+            t = np.clip(((px - f) @ span) / (span @ span), 0.0, 1.0)
+            hit &= near < np.linalg.norm(px - (f + t[..., None] * span), axis=-1)
+    return int(hit.sum())
 
 
 def dominant_colour(image) -> tuple[int, int, int]:

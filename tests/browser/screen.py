@@ -202,7 +202,8 @@ def check_figures(page, panel, outcome, pixels: bool = True) -> dict:
             for c in set(colours):
                 # a curve drawn in (nearly) the frame's own colour is no curve the user sees
                 assert colour_distance(c, background) > 100, (fig["title"], c, background)
-            count = sum(pixels_near(image, c) for c in set(colours))
+            others = [c for c in set(shown["other_colours"]) if c not in colours]
+            count = sum(pixels_near(image, c, foreign=others, background=background) for c in set(colours))
             ink[fig["title"]] = count
             assert count >= MIN_CURVE_PIXELS, \
                 f"{fig['title']!r}: the plot frame shows {count} pixels of its curves' colours {sorted(set(colours))}"
