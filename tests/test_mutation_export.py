@@ -101,3 +101,11 @@ def test_the_results_cards_escape_their_labels():
     assert "p&lt;sub&gt;1&lt;/sub&gt; &amp; more" in page and "<sub>" not in page
     md = to_markdown(_record(label="p*1* & more"))
     assert "| p\\*1\\* &amp; more | 17.9 bar |" in md
+
+
+@pytest.mark.parametrize("detail", ["", "worst <i>here</i>"])
+def test_a_statement_with_markup_is_escaped_in_the_study_table(detail):
+    # html.escape(quote=True) of the statement (and of the detail it carries on hover)
+    page = to_html(_record(statement="p1 < 210 bar & <b>held</b>", detail=detail))
+    assert "p1 &lt; 210 bar &amp; &lt;b&gt;held&lt;/b&gt;" in page
+    assert "<b>" not in page and "<i>" not in page
