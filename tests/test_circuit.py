@@ -6,18 +6,32 @@ import math
 
 import numpy as np
 import pytest
-from hypothesis import given, settings, strategies as st
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 from workbook import inputs
-from workbook.circuit import (CAVITATING, CLOSED, DRIVEN_BACK, HELD, METERING, PUMP_LIMITED, REGIMES, RUNAWAY,
-                              SINKING, STALLED, STARVED, Axis, axis_from_values, solve)
+from workbook.circuit import (
+    CAVITATING,
+    CLOSED,
+    DRIVEN_BACK,
+    HELD,
+    METERING,
+    PUMP_LIMITED,
+    REGIMES,
+    RUNAWAY,
+    SINKING,
+    STALLED,
+    STARVED,
+    Axis,
+    axis_from_values,
+    solve,
+)
 from workbook.cylinder import Cylinder
 from workbook.errors import InputError
 from workbook.fluid import P_ATM, Oil
 from workbook.restrictor import SharpOrifice
 from workbook.supply import Pump, ReliefValve, Supply
-from workbook.valve import (BackPressureValve, CheckValve, CompensatedFlowValve, CounterbalanceValve,
-                            RestrictorValve)
+from workbook.valve import BackPressureValve, CheckValve, CompensatedFlowValve, CounterbalanceValve, RestrictorValve
 
 LPM = 1 / 60000
 BAR = 1e5

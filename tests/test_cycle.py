@@ -7,8 +7,18 @@ import math
 import pytest
 
 from workbook.circuit import Axis
-from workbook.cycle import (CycleSpec, Step, Tank, consistent_cycle, cooler_needed, evaluate_cycle, rms_power,
-                            steady_temperature, time_constant, warm_up)
+from workbook.cycle import (
+    CycleSpec,
+    Step,
+    Tank,
+    consistent_cycle,
+    cooler_needed,
+    evaluate_cycle,
+    rms_power,
+    steady_temperature,
+    time_constant,
+    warm_up,
+)
 from workbook.cylinder import Cylinder
 from workbook.design import DesignFileError, load_design, loads_design
 from workbook.errors import InputError

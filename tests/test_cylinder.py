@@ -4,7 +4,8 @@ import math
 
 import numpy as np
 import pytest
-from hypothesis import given, settings, strategies as st
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 from workbook import cylinder as cyl
 from workbook.cylinder import Cylinder, smallest_standard_bore

@@ -4,7 +4,8 @@ import math
 
 import numpy as np
 import pytest
-from hypothesis import given, settings, strategies as st
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 from workbook.errors import InputError, ModelValidityError
 from workbook.fluid import ISO3448_MIDPOINT_CST, Oil, iso3448_limits, walther_constants

@@ -26,8 +26,7 @@ import pytest
 from workbook import cli, inputs, units
 from workbook.design import DesignFileError, loads_design
 from workbook.errors import InputError
-from workbook.record import load, save
-from workbook.record import store
+from workbook.record import load, save, store
 from workbook.record.errors import RecordError
 from workbook.record.svg import line_chart, nice_ticks
 

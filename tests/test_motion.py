@@ -5,7 +5,6 @@ counterbalance's stability against a linear argument derived by hand."""
 from __future__ import annotations
 
 import dataclasses
-import math
 
 import numpy as np
 import pytest
@@ -16,7 +15,7 @@ from workbook.design import load_design, loads_design
 from workbook.errors import InputError
 from workbook.restrictor import SharpOrifice
 from workbook.studies import motion
-from workbook.transient import Model, Move, initial_state, model_from_values, parse_profile, simulate
+from workbook.transient import Move, initial_state, model_from_values, parse_profile, simulate
 
 DEMO = "notebooks/designs/bin-tipper.toml"
 

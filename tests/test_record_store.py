@@ -18,11 +18,11 @@ from pathlib import Path
 
 import jsonschema
 import pytest
-from hypothesis import HealthCheck, given, settings, strategies as st
+from hypothesis import HealthCheck, given, settings
+from hypothesis import strategies as st
 
 from workbook.inputs import AXIS_SECTIONS, BY_KEY, SECTIONS
-from workbook.record import Record, RecordError, Study, load, loads, record_schema, save, to_json
-from workbook.record import store
+from workbook.record import Record, RecordError, Study, load, loads, record_schema, save, store, to_json
 
 #: the sections a record holds once (the axis inputs); every other section stays with a study
 AXIS_KEYS = {sec.key for sec in AXIS_SECTIONS if sec.key != "study"}

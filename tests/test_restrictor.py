@@ -12,7 +12,6 @@ import math
 
 import numpy as np
 import pytest
-
 from fluids.core import K_from_f, dP_from_K
 from fluids.fittings import exit_normal
 from fluids.flow_meter import flow_meter_discharge
@@ -21,9 +20,9 @@ from fluids.friction import Colebrook, friction_laminar
 from workbook.errors import InputError, ModelValidityError
 from workbook.restrictor import (
     DRILL_SERIES_MM,
-    REGIMES,
     RE_LAMINAR_LIMIT,
     RE_TURBULENT_FROM,
+    REGIMES,
     LongThrottle,
     NeedleThrottle,
     RestrictorFlow,

@@ -12,9 +12,10 @@ from __future__ import annotations
 import math
 
 import numpy as np
-from workbook.errors import ModelValidityError
-from hypothesis import assume, given, settings, strategies as st
+from hypothesis import assume, given, settings
+from hypothesis import strategies as st
 
+from workbook.errors import ModelValidityError
 from workbook.restrictor import (
     RE_LAMINAR_LIMIT,
     RE_TURBULENT_FROM,

@@ -9,19 +9,32 @@ import math
 
 import numpy as np
 import pytest
-from hypothesis import given, settings, strategies as st
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 from workbook import inputs
 from workbook.checks import evaluate
-from workbook.circuit import (CAVITATING, DRIVEN_BACK, HELD, METERING, REGIMES, RUNAWAY, SINKING, STALLED, Axis,
-                              Ratings, axis_from_values, natural_frequency, solve)
+from workbook.circuit import (
+    CAVITATING,
+    DRIVEN_BACK,
+    HELD,
+    METERING,
+    REGIMES,
+    RUNAWAY,
+    SINKING,
+    STALLED,
+    Axis,
+    Ratings,
+    axis_from_values,
+    natural_frequency,
+    solve,
+)
 from workbook.cylinder import Cylinder
 from workbook.fluid import P_ATM, Oil
 from workbook.restrictor import NeedleThrottle, SharpOrifice
 from workbook.studies import counterbalance
 from workbook.supply import Pump, ReliefValve, Supply
-from workbook.valve import (BackPressureValve, CheckValve, CompensatedFlowValve, CounterbalanceValve,
-                            RestrictorValve)
+from workbook.valve import BackPressureValve, CheckValve, CompensatedFlowValve, CounterbalanceValve, RestrictorValve
 
 LPM = 1 / 60000
 BAR = 1e5

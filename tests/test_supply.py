@@ -4,7 +4,8 @@ import math
 
 import numpy as np
 import pytest
-from hypothesis import given, strategies as st
+from hypothesis import given
+from hypothesis import strategies as st
 
 from workbook.errors import InputError
 from workbook.supply import Pump, ReliefValve, Supply

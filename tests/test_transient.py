@@ -14,7 +14,7 @@ from workbook.errors import InputError
 from workbook.fluid import Oil
 from workbook.restrictor import SharpOrifice
 from workbook.supply import Pump, ReliefValve, Supply
-from workbook.transient import Model, Move, simulate, initial_state
+from workbook.transient import Model, Move, initial_state, simulate
 from workbook.valve import CheckValve, CompensatedFlowValve, CounterbalanceValve, RestrictorValve
 
 LPM = 1 / 60000

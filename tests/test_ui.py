@@ -10,14 +10,13 @@ from pathlib import Path
 
 import pytest
 
-from workbook import CAUTION, studies
-from workbook.errors import InputError
+from workbook import CAUTION, inputs, studies
 from workbook.design import load_design
+from workbook.errors import InputError
 from workbook.record import load
 from workbook.ui import open_study
 from workbook.ui.controls import QuantityControl
 from workbook.ui.panel import StudyPanel
-from workbook import inputs
 
 ROOT = Path(__file__).resolve().parents[1]
 DESIGN = ROOT / "notebooks" / "designs" / "bin-tipper.toml"

@@ -26,9 +26,10 @@ from typing import Callable, Mapping
 import numpy as np
 
 from . import CAUTION
-from .circuit import (CLOSED, DRIVEN_BACK, HELD, STALLED, STARVED, UNCONTROLLED, Axis, Solution, solve)
+from .circuit import CLOSED, DRIVEN_BACK, HELD, STALLED, STARVED, UNCONTROLLED, Axis, Solution, solve
+from .constants import BAR as _BAR
+from .constants import T0_C, TO_LPM
 from .errors import InputError
-from .constants import BAR as _BAR, T0_C, TO_LPM
 from .fluid import P_ATM
 from .inputs import LIMITS
 from .supply import OVERALL_EFFICIENCY_DEFAULT

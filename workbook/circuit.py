@@ -102,15 +102,24 @@ from typing import Any, Mapping
 
 import numpy as np
 
+from .constants import BAR as _BAR
+from .constants import G_STANDARD, T0_C
+from .constants import LPM as _LPM
 from .cylinder import Cylinder
 from .errors import InputError
-from .constants import BAR as _BAR, G_STANDARD, LPM as _LPM, T0_C
-from .numerics import solve_increasing
 from .fluid import P_ATM, Oil, effective_bulk_modulus, tube_modulus
+from .numerics import solve_increasing
 from .supply import Supply
-from .valve import (CB_OPEN_GRADIENT_DEFAULT, CHECK_GRADIENT_DEFAULT, BackPressureValve, CheckValve, CompensatedFlowValve,
-                    CounterbalanceValve, RestrictorValve, check_opening)
-
+from .valve import (
+    CB_OPEN_GRADIENT_DEFAULT,
+    CHECK_GRADIENT_DEFAULT,
+    BackPressureValve,
+    CheckValve,
+    CompensatedFlowValve,
+    CounterbalanceValve,
+    RestrictorValve,
+    check_opening,
+)
 
 ARRANGEMENTS = ("meter-in", "meter-out", "bleed-off")
 DIRECTIONS = ("extend", "retract")

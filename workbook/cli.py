@@ -244,11 +244,10 @@ def machine_summary(record, outcome, path: Path) -> list[str]:
 # ---------------------------------------------------------------------------- commands
 def _cmd_evaluate(args) -> int:
     from .design import load_design
+    from .errors import InputError
     from .record import export_html, export_markdown, save
     from .record.store import folder_lock
     from .review import DEFAULT_STUDIES, evaluate_design, evaluate_machine
-
-    from .errors import InputError
     from .studies import KINDS
     from .studies.machine_cycle import KIND as MACHINE_KIND
 

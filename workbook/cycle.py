@@ -74,8 +74,8 @@ from typing import Mapping, Sequence
 import numpy as np
 
 from .circuit import UNCONTROLLED, Axis, solve
-from .errors import InputError
 from .constants import T0_C
+from .errors import InputError
 
 #: heat terms of a step, in the order they are reported (where the heat arises)
 HEAT_TERMS = ("flow valve", "holding valve", "relief", "unloading valve", "return line", "cylinder friction",

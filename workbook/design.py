@@ -53,7 +53,8 @@ from __future__ import annotations
 import datetime as _dt
 import json
 import re
-from dataclasses import dataclass, field as dc_field
+from dataclasses import dataclass
+from dataclasses import field as dc_field
 from pathlib import Path
 from typing import Any, Mapping
 

@@ -29,8 +29,8 @@ import math
 from dataclasses import dataclass
 from typing import Any, Mapping
 
-from .errors import InputError
 from . import safetext, units
+from .errors import InputError
 
 #: field kinds that are not physical quantities
 NON_QUANTITY = ("text", "choice", "flag", "quantity_list")

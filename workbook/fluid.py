@@ -34,15 +34,14 @@ ISO viscosity classification.
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
 from typing import Mapping
 
-import math
-
 import numpy as np
 
-from .errors import InputError, ModelValidityError
 from .constants import P_ATM, T0_C  # noqa: F401  (re-exported: fluid.P_ATM, fluid.T0_C)
+from .errors import InputError, ModelValidityError
 
 #: reference temperature of the density, K (15 °C)
 T_DENSITY_REF = 288.15

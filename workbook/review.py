@@ -45,13 +45,16 @@ import math
 from dataclasses import dataclass, field
 from typing import Iterable, Sequence
 
-from . import __version__, studies as _studies
+from . import __version__
+from . import studies as _studies
 from .design import Design, DesignFileError
 from .errors import InputError
 from .inputs import AXIS_SECTIONS, BY_KEY
 from .record import LevelChange, Record, Study, diff
 from .studies import machine_cycle as _machine
-from .studies.whole_axis import DEFAULT_STUDIES, evaluate as evaluate_values, not_applicable
+from .studies.whole_axis import DEFAULT_STUDIES, not_applicable
+from .studies.whole_axis import evaluate as evaluate_values
+
 #: default relative tolerance of :func:`recheck`
 RTOL = 1e-6
 #: default absolute floor of :func:`recheck`, in each result's display unit

@@ -35,9 +35,8 @@ from typing import Mapping
 
 import numpy as np
 
-from .errors import InputError
 from .constants import BAR as _BAR
-
+from .errors import InputError
 
 
 def _finite_positive(field: str, value, unit_words: str) -> float:

@@ -75,7 +75,7 @@ import numpy as np
 from scipy.integrate import solve_ivp
 from scipy.sparse import lil_matrix
 
-from .circuit import G_STANDARD, Axis, chamber_modulus
+from .circuit import G_STANDARD, Axis
 from .errors import InputError
 from .fluid import P_ATM, effective_bulk_modulus
 from .restrictor import SharpOrifice
@@ -225,7 +225,7 @@ class Model:
 
     # ------------------------------------------------------------------ network
     def _build(self, body_volume, port_volume):
-        ax, c = self.axis, self.cyl
+        ax = self.axis
         vside = ax.valve_side()
         bleed_side = None
         if ax.arrangement == "bleed-off":

@@ -56,9 +56,9 @@ from typing import Any
 
 import numpy as np
 
+from .constants import BAR as _BAR
+from .constants import LPM as _LPM
 from .errors import InputError
-from .constants import BAR as _BAR, LPM as _LPM
-
 
 #: default flow gradient of a free-flow check above its cracking pressure, Pa per m³/s:
 #: 0.1 bar per L/min (a small cartridge check at 20 L/min drops about 2 bar; from memory)

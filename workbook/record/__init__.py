@@ -14,8 +14,17 @@ boundary modules (errors, units, fields, inputs); never the physics, checks or w
 from .diff import InputChange, LevelChange, RecordDiff, ResultChange, diff
 from .errors import RecordError
 from .export import export_html, export_markdown, to_html, to_markdown
-from .model import (FINDING_KEYS, LEVELS, SCHEMA_VERSION, SUPPORTED_SCHEMA_VERSIONS, Record, Study,
-                    finding_entry, inputs_from_values, values_from_inputs)
+from .model import (
+    FINDING_KEYS,
+    LEVELS,
+    SCHEMA_VERSION,
+    SUPPORTED_SCHEMA_VERSIONS,
+    Record,
+    Study,
+    finding_entry,
+    inputs_from_values,
+    values_from_inputs,
+)
 from .schema import record_schema
 from .store import digest, load, loads, save, to_json
 from .verdict import Verdict, VerdictItem, record_verdict, verdict

@@ -28,11 +28,11 @@ import re
 from pathlib import Path
 
 from .. import CAUTION
+from ..formatting import number, pretty_unit
 from ..inputs import BY_KEY, SECTIONS
 from .model import LEVELS, Record, Study
 from .store import atomic_write_text
 from .svg import ACCENT, line_chart
-from ..formatting import number, pretty_unit
 from .verdict import margin_text, record_verdict
 
 LEVEL_WORD = {"fail": "FAIL", "caution": "CAUTION", "pass": "PASS"}

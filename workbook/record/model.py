@@ -46,16 +46,16 @@ from __future__ import annotations
 import copy
 import dataclasses
 import math
-from dataclasses import dataclass, field as dc_field
+from dataclasses import dataclass
+from dataclasses import field as dc_field
 from typing import Any, Iterable, Mapping
 
 import numpy as np
 
-from .. import CAUTION, __version__
+from .. import CAUTION, __version__, safetext, units
 from ..errors import InputError
 from ..fields import Field
 from ..inputs import AXIS_SECTIONS, BY_KEY, IDENTITY, SECTIONS
-from .. import safetext, units
 
 #: schema version this library writes
 SCHEMA_VERSION = 2

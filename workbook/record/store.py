@@ -46,9 +46,8 @@ try:
 except ImportError:  # not on this platform: no locks, stale temporary files are left alone
     fcntl = None
 
-from .. import __version__
+from .. import __version__, safetext
 from ..errors import InputError
-from .. import safetext
 from .errors import RecordError
 from .model import SUPPORTED_SCHEMA_VERSIONS, Record
 from .schema import SCHEMA_FILE, SCHEMA_FILES, first_problem
@@ -326,7 +325,9 @@ def _loads(text: str, name: str, allowed_file: str) -> Record:
         document = json.loads(text, object_pairs_hook=_no_duplicates, parse_constant=_no_constant,
                               parse_float=_finite_float, parse_int=_bounded_int)
     except json.JSONDecodeError as exc:
-        if exc.pos >= len(text.rstrip()) or (exc.msg.startswith("Unterminated string")
+        rest = text[exc.pos:].rstrip()
+        # the end of the file, or a number cut short there ("82." or "1e")
+        if not rest.strip("0123456789.eE+-") or (exc.msg.startswith("Unterminated string")
                                              and '"' not in text[exc.pos + 1:]):
             given = f"a file that ends early at line {exc.lineno} (truncated or damaged)"
         else:

@@ -31,10 +31,10 @@ import dataclasses
 import numpy as np
 
 from ..circuit import METERING, solve
-from ..valve import BackPressureValve
 from ..errors import InputError
+from ..valve import BackPressureValve
 from .base import Outcome, curve, finding, grade, result
-from .common import AXIS_FIELDS, FLOW_VALVE_FIELDS, build_axis, section_fields, regime_list, sweep
+from .common import AXIS_FIELDS, FLOW_VALVE_FIELDS, build_axis, regime_list, section_fields, sweep
 
 KIND = "counterbalance"
 TITLE = "Counterbalance setting"

@@ -36,12 +36,11 @@ import numpy as np
 
 from .. import CAUTION
 from ..circuit import axis_from_values
-from ..cycle import (HEAT_TERMS, MachineCycle, consistent_cycle, spec_from_values, step_from_data,
-                     step_to_data, timeline, warm_up)
-from ..errors import InputError
 from ..constants import TO_LPM
+from ..cycle import HEAT_TERMS, MachineCycle, consistent_cycle, spec_from_values, step_from_data, step_to_data, timeline, warm_up
+from ..errors import InputError
 from ..inputs import CYCLE
-from ..record import Record, Study, values_from_inputs, inputs_from_values
+from ..record import Record, Study, inputs_from_values, values_from_inputs
 from . import base
 
 KIND = "machine-cycle"

@@ -23,8 +23,8 @@ import numpy as np
 
 from .. import inputs
 from .. import restrictor as rs
-from ..errors import InputError
 from ..constants import T0_C, TO_LPM
+from ..errors import InputError
 from ..fluid import Oil
 from .base import Outcome, as_alternative, curve, finding, grade, ratio_result, result
 

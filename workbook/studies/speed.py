@@ -23,8 +23,8 @@ import numpy as np
 
 from .. import restrictor as rs
 from ..circuit import METERING, solve
-from ..errors import InputError
 from ..constants import TO_LPM
+from ..errors import InputError
 from ..valve import CompensatedFlowValve, RestrictorValve
 from .base import Outcome, as_alternative, curve, finding, grade, ratio_result, result
 from .common import AXIS_FIELDS, HOLDING_FIELDS, build_axis, regime_list, sweep

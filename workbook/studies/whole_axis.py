@@ -31,9 +31,9 @@ import copy
 from dataclasses import dataclass, field
 from typing import Iterable, Mapping, Sequence
 
-from . import KINDS, module
 from ..errors import InputError
 from ..record import Record, verdict
+from . import KINDS, module
 
 #: the studies of an axis, in record order (the axis check first: its words lead the verdict)
 DEFAULT_STUDIES = ("axis-check", "restrictor-sizing", "speed-vs-load", "rod-pressure", "counterbalance")
