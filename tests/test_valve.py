@@ -5,12 +5,12 @@ import math
 
 import numpy as np
 import pytest
-from hypothesis import given, strategies as st
+from hypothesis import given
+from hypothesis import strategies as st
 
 from workbook.errors import InputError
 from workbook.restrictor import SharpOrifice
-from workbook.valve import (BackPressureValve, CheckValve, CompensatedFlowValve, CounterbalanceValve,
-                            RestrictorValve, DROOP_SPAN)
+from workbook.valve import DROOP_SPAN, BackPressureValve, CheckValve, CompensatedFlowValve, CounterbalanceValve, RestrictorValve
 
 LPM = 1 / 60000
 RHO, MU = 870.0, 0.04
