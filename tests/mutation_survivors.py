@@ -7,9 +7,9 @@ Run in the directory of the run (``make mutation`` does)::
 It reads mutmut's cache (``.mutmut-cache``, SQLite), prints killed / survived / equivalent /
 timeout / untested per module, and lists every survivor that no entry of the equivalents
 file matches, with its line before and after the mutation. An entry of the equivalents file
-is one line of four fields separated by `` | ``::
+is one line of four fields separated by `` || `` (Python has no ``||``, so no line of code holds it)::
 
-    file | source line (stripped) | mutated line (stripped) | why no test can or need tell it apart
+    file || source line (stripped) || mutated line (stripped) || why no test can or need tell it apart
 
 Lines that start with ``#`` and blank lines are comments. An entry matches a survivor of
 that file whose line, before and after the mutation, is the same text with its white space
@@ -45,9 +45,9 @@ def read_equivalents(path) -> dict:
     for n, raw in enumerate(pathlib.Path(path).read_text(encoding="utf-8").splitlines(), 1):
         if not raw.strip() or raw.lstrip().startswith("#"):
             continue
-        parts = [p.strip() for p in raw.split(" | ")]
+        parts = [p.strip() for p in raw.split(" || ")]
         if len(parts) != 4 or not parts[3]:
-            raise SystemExit(f"{path}:{n}: an entry needs four fields 'file | line | mutated | why'")
+            raise SystemExit(f"{path}:{n}: an entry needs four fields 'file || line || mutated || why'")
         if _is_pattern(parts[1]) or _is_pattern(parts[2]):
             out[(parts[0], parts[1], parts[2])] = parts[3]          # a pattern: spaces kept
         else:
@@ -136,7 +136,7 @@ def main(argv) -> int:
         print(f"\n{len(new)} surviving mutant(s) not in the equivalents file:")
         for filename, n, before, after in new:
             print(f"{filename}:{n}\n    - {before}\n    + {after}")
-    stale = [k for k in equivalents if k not in used and (not only or k[0] in only)]
+    stale = [k for k in equivalents if k not in used and k[0] in counts]
     if stale and counts:
         print(f"\n{len(stale)} entr(y/ies) of the equivalents file matched no survivor this run "
               "(killed now, or the line changed): check and remove them")
