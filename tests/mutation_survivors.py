@@ -83,6 +83,13 @@ def mutated_line(filename: str, line: str, line_number: int, index: int) -> str:
     from mutmut import Context, RelativeMutationID, mutate
 
     source = pathlib.Path(filename).read_text(encoding="utf-8")
+    lines = source.split("\n")
+    if not (0 <= line_number < len(lines) and lines[line_number] == line):
+        # the file changed since mutmut numbered its lines: the nearest line of the same text
+        same = [i for i, text in enumerate(lines) if text == line]
+        if not same:
+            return "?"
+        line_number = min(same, key=lambda i: abs(i - line_number))
     ctx = Context(source=source, filename=filename,
                   mutation_id=RelativeMutationID(line=line, index=index, line_number=line_number))
     new, n = mutate(ctx)

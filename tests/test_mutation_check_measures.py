@@ -279,3 +279,58 @@ def test_findings_are_frozen_records():
         checks.RULES[0].sense = "min"
     assert checks.PUMP_OVERALL_EFFICIENCY == 0.85                # default overall efficiency (from memory)
     assert checks.N_TEMPERATURES == 5
+
+
+def test_speed_and_stall_details_in_full(case):
+    axis, grid, found = case
+    s = next(s for d, o, s in grid if d == axis.controlled and o == 1.0)
+    dev = np.abs(s.speed - axis.target_speed) / axis.target_speed
+    i = np.unravel_index(np.argmax(dev), dev.shape)
+    detail = (f"worst speed {float(s.speed[i]) * 1e3:.1f} mm/s against target {axis.target_speed * 1e3:g} mm/s at "
+              f"load {float(s.load[i]) / 1e3:g} kN, oil {float(s.temperature[i]) - T0:.0f} degC ({s.regime[i]})")
+    loose = np.isin(s.regime, circuit.UNCONTROLLED)
+    f = found["SPEED-TARGET"]
+    if loose.any():
+        # a load that runs away: its speed is only a lower bound, so the check fails whatever it reads
+        j = np.unravel_index(np.argmax(loose), loose.shape)
+        detail += (f"; {int(loose.sum())} point(s) not under control (e.g. load {float(s.load[j]) / 1e3:g} kN, "
+                   f"{s.regime[j]}): their speed is only a lower bound")
+        assert f.level == "fail"
+    assert f.detail == detail
+    stalled = np.isin(s.regime, (circuit.STALLED, circuit.HELD, circuit.CLOSED, circuit.DRIVEN_BACK))
+    if stalled.any():
+        k = np.unravel_index(np.argmax(stalled), stalled.shape)
+        assert found["SUPPLY-STALL"].detail == f"e.g. load {float(s.load[k]) / 1e3:g} kN ({s.regime[k]})"
+    else:
+        assert found["SUPPLY-STALL"].detail == "the controlled motion moves at every load and temperature"
+
+
+def test_the_cavitation_rules_name_their_chamber(case):
+    axis, grid, found = case
+    for side in ("cap", "rod"):
+        f = found[f"CAV-{side.upper()}"]
+        assert f.statement == f"The {side} chamber never needs less than the cavitation limit (absolute)."
+        assert f.detail.startswith(f"lowest absolute pressure the {side} chamber is asked for at: ")
+
+
+@pytest.mark.parametrize("cylinder, words", [
+    # 45 mm rod, K = 1 pinned at both ends, L estimated as 2 x 0.6 + 4 x 0.08 = 1.52 m: slenderness
+    # 4 L / d = 135 (by hand), above the transition: Euler
+    (CYL, "Euler, pinned-pinned, pin-to-pin length 1520 mm ESTIMATED as twice the stroke plus four bores: "
+          "give cylinder.buckling_length, slenderness 135 (transition {t:.0f}), E 210 GPa"),
+    # a 0.3 m pin-to-pin length: slenderness 4 x 0.3 / 0.045 = 27, a short rod: Johnson parabola
+    (Cylinder(0.080, 0.045, 0.2, 210e5, buckling_length=0.3),
+     "Johnson parabola (short rod, below the Euler limit; yield {y:g} MPa), pinned-pinned, pin-to-pin length 300 mm, "
+     "slenderness 27 (transition {t:.0f}), E 210 GPa"),
+])
+def test_the_buckling_details_say_how_the_load_was_found(cylinder, words):
+    axis = circuit.Axis(cylinder, OIL, _supply(), RestrictorValve(SharpOrifice(1.4e-3)), arrangement="meter-out",
+                        controlled="extend", loads=(10e3,), tank_pressure=1 * BAR, ratings=RATINGS)
+    found = {f.rule_id: f for f in checks.evaluate(axis)}
+    text = words.format(t=cylinder.transition_slenderness(), y=cylinder.rod_yield / 1e6)
+    f_crit = cylinder.buckling_load()
+    stall = found["ROD-BUCKLING-STALL"]
+    assert stall.detail == (f"{text}; relief full-flow pressure 172 bar above the 1 bar tank back pressure on the "
+                            "piston; matters if the rod can be driven against a stop or an obstacle")
+    f = found["ROD-BUCKLING"]
+    assert f.detail.endswith(f"; buckling load {f_crit / 1e3:.4g} kN ({text}) / 3.5")
