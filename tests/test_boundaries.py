@@ -98,4 +98,9 @@ def test_grade_of_the_studies_at_its_boundaries(share):
     assert grade(100 * BAR * (1 + share) * (1 + 1e-9), 100 * BAR, share, higher_is_worse=False)[0] == "pass"
     level, margin = grade(231 * BAR, lim, share)
     assert margin == pytest.approx(-0.1, rel=1e-12)
-    assert grade(1e-3, 0.0, share)[0] == "fail" and grade(0.0, 0.0, share)[0] == "caution"
+    # one grading rule with the checks (workbook.grading): a zero limit has no caution band
+    assert grade(1e-3, 0.0, share)[0] == "fail" and grade(0.0, 0.0, share)[0] == "pass"
+    # a vanishing limit (a denormal load pressure) is a zero limit, never an infinite margin
+    level, margin = grade(30 * BAR, 4e-318, share, higher_is_worse=False)
+    assert (level, margin) == ("pass", pytest.approx(30 * BAR))
+    assert grade(-1e-3, 4e-318, share, higher_is_worse=False)[0] == "fail"

@@ -31,6 +31,7 @@ from .constants import BAR as _BAR
 from .constants import T0_C, TO_LPM
 from .errors import InputError
 from .fluid import P_ATM
+from .grading import grade_margin
 from .inputs import LIMITS
 from .supply import OVERALL_EFFICIENCY_DEFAULT
 from .valve import BackPressureValve, CompensatedFlowValve, CounterbalanceValve
@@ -414,14 +415,8 @@ def _limits(limits: Mapping | None) -> dict:
 
 
 def _level(rule: Rule, value: float, limit: float, limits: Mapping) -> tuple[float, str]:
-    scale = abs(limit) if limit != 0 else 1.0
-    margin = (limit - value) / scale if rule.sense == "max" else (value - limit) / scale
     band = limits[rule.margin_key] if rule.margin_key else 0.10
-    if margin < -1e-12:
-        return margin, rule.broken
-    if limit != 0 and margin < band:
-        return margin, "caution"
-    return margin, "pass"
+    return grade_margin(value, limit, band, higher_is_worse=rule.sense == "max", broken=rule.broken)
 
 
 def evaluate(axis: Axis, limits: Mapping | None = None) -> list[Finding]:

@@ -23,6 +23,7 @@ import numpy as np
 from .. import CAUTION, inputs, units
 from ..errors import InternalDefect
 from ..formatting import number as _num
+from ..grading import grade_margin
 from ..record import Study, inputs_from_values
 from ..record.model import STUDY_SECTIONS
 
@@ -50,20 +51,16 @@ def ratio_result(label: str, value: float, percent: bool = False) -> dict:
 def grade(value: float, limit: float, caution_share: float, higher_is_worse: bool = True) -> tuple[str, float]:
     """Level and margin of ``value`` against ``limit``.
 
-    The margin is the share of the limit still unused: ``(limit - value)/|limit|`` when a
-    higher value is worse, ``(value - limit)/|limit|`` otherwise. Negative margin fails;
-    a margin below ``caution_share`` is a caution.
+    The workbook's one grading rule, :func:`workbook.grading.grade_margin`: the margin is
+    the share of the limit still unused, ``(limit - value)/|limit|`` when a higher value is
+    worse, ``(value - limit)/|limit|`` otherwise. Negative margin fails; a margin below
+    ``caution_share`` is a caution.
 
     >>> grade(200e5, 210e5, 0.10)
     ('caution', 0.047619047619047616)
     """
-    scale = abs(limit) if limit != 0 else 1.0
-    margin = ((limit - value) if higher_is_worse else (value - limit)) / scale
-    if margin < -1e-12:
-        return "fail", margin
-    if margin < caution_share:
-        return "caution", margin
-    return "pass", margin
+    margin, level = grade_margin(value, limit, caution_share, higher_is_worse)
+    return level, margin
 
 
 def finding(rule_id: str, statement: str, quantity: str, value, limit, dimension: str, unit: str,
