@@ -130,3 +130,19 @@ def test_markdown_escapes_markup_and_html():
 @pytest.mark.parametrize("export", [to_html, to_markdown])
 def test_exports_are_reproducible(export):
     assert export(_record()) == export(_record())
+
+
+def test_motion_inputs_show_only_beside_the_motion_study():
+    # the review copy says "every study of this record ran on these inputs": a section only the
+    # axis-motion study reads is left out (and named as left out) when that study is absent
+    values = {"cylinder": {"bore": 0.08}, "motion": {"ramp_open": 0.15, "impact_speed": 0.1}}
+    steady = Record({"machine": "press", "axis": "ram"}, {"rp": Study("rod-pressure", "Rod-side pressure")},
+                    inputs=inputs_from_values(values))
+    moving = Record({"machine": "press", "axis": "ram"}, {"mo": Study("axis-motion", "The axis in motion")},
+                    inputs=inputs_from_values(values))
+    for export in (to_html, to_markdown):
+        left_out, shown = export(steady), export(moving)
+        assert "Directional valve opening ramp" not in left_out and "Bore D" in left_out
+        assert "Not shown: Motion in time" in left_out
+        assert "Directional valve opening ramp" in shown and "150 ms" in shown
+        assert "Not shown" not in shown

@@ -250,6 +250,9 @@ class Section:
     title: str
     fields: tuple[Field, ...]
     help: str = ""
+    #: the study kind that alone uses this section ("" for every study): a review copy shows
+    #: the section's inputs only when that study is in the record
+    only_for: str = ""
 
     def __post_init__(self):
         keys = [f.key for f in self.fields]

@@ -349,6 +349,7 @@ MOTION = Section(
               optional=True, help="time the machine cycle allows for the whole command profile (empty: each "
                                   "controlled move against the target speed less its tolerance)"),
     ),
+    only_for="axis-motion",
 )
 
 #: the machine cycle's own inputs (the ``[cycle]`` table of a design file, read by

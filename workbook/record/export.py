@@ -48,15 +48,23 @@ def _num(v, digits: int = 6) -> str:
     return number(v, digits, missing="")
 
 
-def _input_rows(inputs):
+def _unused_sections(record: Record) -> list[str]:
+    """Titles of the input sections of ``record`` that only a study absent from it uses (the
+    motion inputs of a record without the axis-motion study)."""
+    kinds = {s.kind for s in record.studies.values()}
+    return [sec.title for sec in SECTIONS if sec.only_for and sec.only_for not in kinds and record.inputs.get(sec.key)]
+
+
+def _input_rows(inputs, skip: tuple[str, ...] = ()):
     """(section title, [(label, key, value text, unit)]) in catalogue order (an axis without
-    a holding valve shows only its kind: the valve's settings are not part of the design)."""
+    a holding valve shows only its kind: the valve's settings are not part of the design);
+    sections titled in ``skip`` are left out."""
     order = [s.key for s in SECTIONS] + [k for k in inputs if k not in BY_KEY]
     for sec_key in order:
         entries = inputs.get(sec_key)
-        if not entries:
-            continue
         sec = BY_KEY.get(sec_key)
+        if not entries or (sec and sec.title in skip):
+            continue
         rows = []
         if sec_key == "holding" and entries.get("kind", {}).get("value") == "none":
             entries = {"kind": entries["kind"]}
@@ -69,6 +77,14 @@ def _input_rows(inputs):
             rows.append((label, key, "(not given)" if value is None else _num(value),
                          pretty_unit(entry.get("unit", ""))))
         yield (sec.title if sec else sec_key), rows
+
+
+def _inputs_lead(skipped: list[str]) -> str:
+    text = "Every study of this record ran on these inputs."
+    if skipped:
+        text += (" Not shown: " + ", ".join(skipped) + " (kept in the JSON record; the study that uses "
+                 "them is not in this record).")
+    return text
 
 
 def _counts(record: Record) -> dict:
@@ -131,8 +147,9 @@ def to_markdown(record: Record) -> str:
     if vrows:
         out += _md_table(["Level", "Breach", "Value", "Limit", "Margin", "Source", "Found by"], vrows)
     if record.inputs:
-        out += ["## Design inputs", "", "Every study of this record ran on these inputs.", ""]
-        for title, rows in _input_rows(record.inputs):
+        skipped = _unused_sections(record)
+        out += ["## Design inputs", "", _md(_inputs_lead(skipped)), ""]
+        for title, rows in _input_rows(record.inputs, tuple(skipped)):
             out += [f"**{_md(title)}**", ""]
             out += _md_table(["Input", "Value"], [[_md(lbl), f"{_md(v)} {_md(u)}".strip()] for lbl, _k, v, u in rows])
     for n, (key, study) in enumerate(record.studies.items(), 1):
@@ -340,8 +357,8 @@ def to_html(record: Record) -> str:
     inputs_html = []
     if record.inputs:
         inputs_html = ['<section class="inputs" id="inputs"><h2>Design inputs</h2>',
-                       "<p>Every study of this record ran on these inputs.</p>",
-                       _cards(_input_rows(record.inputs)), "</section>"]
+                       f"<p>{_esc(_inputs_lead(_unused_sections(record)))}</p>",
+                       _cards(_input_rows(record.inputs, tuple(_unused_sections(record)))), "</section>"]
     parts = [
         "<!DOCTYPE html>",
         '<html lang="en"><head><meta charset="utf-8">',
