@@ -71,6 +71,10 @@ class Field:
         The field may be left empty (None).
     integer : bool
         Only whole numbers are accepted (``points = 20.5`` is refused, not rounded).
+    required : bool
+        Machine data a design file must give (bore, loads, pump, ratings...): the default is
+        the demo scenario's, used only where the workbook opens on the demo, never silently
+        for a design file that leaves the field out.
     """
 
     key: str
@@ -89,6 +93,7 @@ class Field:
     list_dimension: str = ""
     optional: bool = False
     integer: bool = False
+    required: bool = False
 
     # ------------------------------------------------------------------ parsing
     @property
