@@ -11,7 +11,7 @@ ROOT = pathlib.Path(__file__).resolve().parents[1] / "workbook"
 # (equal rank: within a layer, e.g. valve uses restrictor)
 RANK = {
     "__init__": 0, "errors": 0, "safetext": 0, "constants": 0, "numerics": 0, "formatting": 0, "grading": 0,
-    "units": 1, "fields": 1, "inputs": 1,
+    "units": 1, "unit_spelling": 1, "fields": 1, "inputs": 1,
     "fluid": 2, "restrictor": 2, "cylinder": 2, "supply": 2, "valve": 2,
     "circuit": 3,
     "checks": 4,

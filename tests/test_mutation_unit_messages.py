@@ -71,7 +71,7 @@ class _OnlyMagnitude:
     (("1 mm**2", "length"), {}, f"value: got '1 mm**2'; allowed: {LENGTH} (an area was given)"),
     (("1 m**4", "length"), {}, f"value: got '1 m**4'; allowed: {LENGTH} (a quantity of dimension [length] ** 4 was given)"),
     (("1 cSt", "length"), {}, f"value: got '1 cSt'; allowed: {LENGTH} (a kinematic viscosity was given)"),
-    (("1 1/K", "length"), {}, f"value: got '1 1/K'; allowed: {LENGTH} (a per temperature was given)"),
+    (("1 1/K", "length"), {}, f"value: got '1 1/K'; allowed: {LENGTH} (a coefficient per temperature was given)"),
     (("1 bar/(L/min)", "length"), {}, f"value: got '1 bar/(L/min)'; allowed: {LENGTH} (a pressure per flow was given)"),
     (("abc", "kinematic_viscosity"), {},
      "value: got 'abc'; allowed: a kinematic viscosity with a unit, e.g. 46 cSt, 46 mm**2/s (start with a number)"),

@@ -94,3 +94,106 @@ def test_bad_unit_input_names_the_field(value, dimension, needle):
     assert err.value.field == "my field"
     assert str(err.value).startswith("my field:")
     assert needle in str(err.value)
+
+
+# ---------------------------------------------------------------------------- what a unit was read as
+TEMPERATURE = "a temperature with a unit, e.g. 40 degC, 104 degF, 313 K"
+FORCE = "a force with a unit, e.g. 25 kN, 5000 lbf"
+PRESSURE = "a pressure with a unit, e.g. 160 bar, 2300 psi, 16 MPa"
+ANGLE = "an angle with a unit, e.g. 30 deg"
+
+
+@pytest.mark.parametrize("text, dimension, field, message", [
+    # SI symbols that mean something else: C is the coulomb, F the farad (SI brochure, table 4)
+    ("15 C", "temperature", "temp_min", f"temp_min: got '15 C'; allowed: {TEMPERATURE} "
+     "(C is the coulomb, an electric charge; for a temperature write 15 degC or 15 °C)"),
+    ("60 F", "temperature", "temp_max", f"temp_max: got '60 F'; allowed: {TEMPERATURE} "
+     "(F is the farad, an electric capacitance; for a temperature write 60 degF or 60 °F)"),
+    ("40 deg", "temperature", "design_temp", f"design_temp: got '40 deg'; allowed: {TEMPERATURE} "
+     "(deg is the degree of arc, an angle; for a temperature write 40 degC or 40 degF)"),
+    ("7e-4 1/C", "per_temperature", "expansion", "expansion: got '7e-4 1/C'; allowed: a coefficient per "
+     "temperature with a unit, e.g. 7e-4 1/K (C is the coulomb, an electric charge; for a coefficient per "
+     "degree write 7e-4 1/K or 7e-4 1/degC)"),
+    # a mass where a force is wanted (NIST SP 811 B.8: lb is the pound mass, lbf the pound-force)
+    ("10 lb", "force", "friction", f"friction: got '10 lb'; allowed: {FORCE} "
+     "(lb is the pound as a mass; the pound-force is lbf: write 10 lbf)"),
+    ("800 kg", "force", "friction", f"friction: got '800 kg'; allowed: {FORCE} (a mass is not a force: write "
+     "the force in N, kN or lbf; a mass of 1 t weighs 9.807 kN at standard gravity)"),
+    ("800 kgf", "mass", "mass", "mass: got '800 kgf'; allowed: a mass with a unit, e.g. 800 kg, 1800 lb "
+     "(a force is not a mass: write the mass in kg, t or lb)"),
+    ("25 kn", "force", "friction", f"friction: got '25 kn'; allowed: {FORCE} "
+     "(kn is the knot, a speed; for kilonewtons write 25 kN)"),
+    ("2 m", "time", "dwell", "dwell: got '2 m'; allowed: a time with a unit, e.g. 2 s "
+     "(m is the metre; for minutes write 2 min)"),
+    # a percent is a ratio, not an angle (slope 1 % = atan(0.01) = 0.5729 deg by hand)
+    ("1 %", "angle", "inclination", f"inclination: got '1 %'; allowed: {ANGLE} "
+     "(a percent is a ratio, not an angle: write an angle such as 3 deg; a slope of 1 % rises at 0.5729 deg)"),
+    ("5 bar", "angle", "half_angle", f"half_angle: got '5 bar'; allowed: {ANGLE} (a pressure was given)"),
+    ("1 %", "pressure", "setting", f"setting: got '1 %'; allowed: {PRESSURE} (a percentage was given)"),
+    ("3 deg", "pressure", "setting", f"setting: got '3 deg'; allowed: {PRESSURE} (an angle was given)"),
+    ("5 pct", "dimensionless", "droop", "droop: got '5 pct'; allowed: a plain number or a percentage, e.g. "
+     "0.61, 3, 15 % (pct reads as the picocarat, a mass; for a percentage write 5 %)"),
+    ("5 bar", "dimensionless", "cd", "cd: got '5 bar'; allowed: a plain number or a percentage, e.g. "
+     "0.61, 3, 15 % (a pressure was given)"),
+    # gauge and absolute marks: pressures are gauge throughout (DESIGN.md, Fluid)
+    ("160 barg", "pressure", "relief_cracking", f"relief_cracking: got '160 barg'; allowed: {PRESSURE} "
+     "(pressures are gauge here: write 160 bar, without the gauge mark 'g')"),
+    ("160 bar g", "pressure", "relief_cracking", f"relief_cracking: got '160 bar g'; allowed: {PRESSURE} "
+     "(pressures are gauge here: write 160 bar, without the gauge mark 'g')"),
+    ("160 bar(g)", "pressure", "relief_cracking", f"relief_cracking: got '160 bar(g)'; allowed: {PRESSURE} "
+     "(pressures are gauge here: write 160 bar, without the gauge mark 'g')"),
+    ("2300 psig", "pressure", "relief_cracking", f"relief_cracking: got '2300 psig'; allowed: {PRESSURE} "
+     "(pressures are gauge here: write 2300 psi, without the gauge mark 'g')"),
+    ("0.3 bar abs", "pressure", "cavitation_abs", f"cavitation_abs: got '0.3 bar abs'; allowed: {PRESSURE} "
+     "(write the pressure without the absolute mark 'abs': pressures here are gauge except in a field whose "
+     "name says absolute, such as the cavitation limit, which takes the absolute value as written: 0.3 bar)"),
+    ("14.7 psia", "pressure", "tank_pressure", f"tank_pressure: got '14.7 psia'; allowed: {PRESSURE} "
+     "(write the pressure without the absolute mark 'a': pressures here are gauge except in a field whose "
+     "name says absolute, such as the cavitation limit, which takes the absolute value as written: 14.7 psi)"),
+    # symbols with the wrong case: SI symbols are case-sensitive (SI brochure, 5.2)
+    ("16 Mpa", "pressure", "rated_pressure", f"rated_pressure: got '16 Mpa'; allowed: {PRESSURE} "
+     "('Mpa' is not a unit known here; did you mean MPa? unit symbols are case-sensitive)"),
+    ("25 KN", "force", "friction", f"friction: got '25 KN'; allowed: {FORCE} "
+     "('KN' is not a unit known here; did you mean kN? unit symbols are case-sensitive)"),
+    ("46 cst", "kinematic_viscosity", "nu40", "nu40: got '46 cst'; allowed: a kinematic viscosity with a "
+     "unit, e.g. 46 cSt, 46 mm**2/s ('cst' is not a unit known here; did you mean cSt? unit symbols are "
+     "case-sensitive)"),
+    # the unit as typed is echoed, not pint's spelling of it
+    ("16 cm³/turnip", "displacement", "displacement", "displacement: got '16 cm³/turnip'; allowed: a "
+     "displacement with a unit, e.g. 16 cm**3, 1 in**3 (per revolution) ('cm³/turnip' is not a unit known here)"),
+])
+def test_what_a_unit_was_read_as_and_what_to_write(text, dimension, field, message):
+    with pytest.raises(InputError) as err:
+        units.to_si(text, dimension, field)
+    assert err.value.field == field
+    assert str(err.value) == message
+
+
+def test_the_traps_are_still_what_pint_says_they_are():
+    # pint (the reference library): the symbols the messages above explain really are these units
+    import pint
+
+    reg = pint.UnitRegistry()
+    assert str(reg.Unit("C")) == "coulomb" and str(reg.Unit("F")) == "farad"
+    assert str(reg.Unit("kn")) == "knot" and str(reg.Unit("lb")) == "pound" and str(reg.Unit("m")) == "meter"
+    assert str(reg.Unit("pct")) == "picocarat"
+    assert reg.Quantity(1, "percent").to("dimensionless").magnitude == pytest.approx(0.01)
+
+
+def test_an_angle_needs_an_angle_unit():
+    # pint counts the radian as dimensionless; the workbook does not let a ratio pass as one
+    q = units.registry().Quantity
+    assert units.to_si("3 deg", "angle", "a") == pytest.approx(math.radians(3), rel=1e-12)
+    assert units.to_si("0.25 turn", "angle", "a") == pytest.approx(math.pi / 2, rel=1e-12)
+    assert units.to_si(3, "angle", "a", default_unit="deg") == pytest.approx(math.radians(3), rel=1e-12)
+    with pytest.raises(InputError) as err:
+        units.to_si(q(0.5, "dimensionless"), "angle", "inclination")
+    assert str(err.value) == (f"inclination: got 0.5 dimensionless; allowed: {ANGLE} (a plain number or ratio "
+                              "is not an angle: write the angle with its unit, e.g. 3 deg)")
+
+
+def test_what_kind_of_value_was_given_reads_as_english():
+    for value, words in [(None, "None"), ([1], "a list"), ({}, "a dict"), (1j, "a complex"), (object(), "an object")]:
+        with pytest.raises(InputError) as err:
+            units.to_si(value, "length", "bore")
+        assert err.value.given == words

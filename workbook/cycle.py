@@ -76,6 +76,7 @@ import numpy as np
 from .circuit import UNCONTROLLED, Axis, solve
 from .constants import T0_C
 from .errors import InputError
+from .formatting import kind_of
 
 #: heat terms of a step, in the order they are reported (where the heat arises)
 HEAT_TERMS = ("flow valve", "holding valve", "relief", "unloading valve", "return line", "cylinder friction",
@@ -531,7 +532,7 @@ def step_to_data(step: Step) -> dict:
 def step_from_data(data: Mapping, where: str = "step") -> Step:
     """A :class:`Step` back from :func:`step_to_data`; refused with the part named."""
     if not isinstance(data, Mapping):
-        raise InputError(where, f"a {type(data).__name__}", "a mapping of the step's parts")
+        raise InputError(where, kind_of(data), "a mapping of the step's parts")
     extra = sorted(set(data) - {"kind", "label", "axis", "direction", "load", "duration", "stroke"})
     if extra:
         raise InputError(f"{where}.{extra[0]}", "an unknown part", "kind, label, axis, direction, load, duration, stroke")

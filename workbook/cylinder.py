@@ -31,6 +31,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from .errors import InputError
+from .formatting import with_article
 
 #: ISO 3320 cylinder bores, first choice, mm (from memory of the standard's table)
 ISO3320_BORES_MM = (8, 10, 12, 16, 20, 25, 32, 40, 50, 63, 80, 100, 125, 160, 200, 250, 320, 400, 500)
@@ -285,7 +286,7 @@ def smallest_standard_bore(force: float, pressure: float, rod_ratio: float | Non
         if area * p >= f:
             return d
     raise InputError("force", f"{f / 1e3:g} kN",
-                     f"a force that a {ISO3320_BORES_MM[-1]} mm bore can develop at {p / 1e5:g} bar")
+                     f"a force that {with_article(f'{ISO3320_BORES_MM[-1]} mm bore')} can develop at {p / 1e5:g} bar")
 
 
 def standard_rods_for(bore: float) -> tuple[float, ...]:

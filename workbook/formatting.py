@@ -56,4 +56,44 @@ def quantity(value, unit: str, digits: int = 4) -> str:
     return f"{number(value, digits)} {unit}".strip()
 
 
-__all__ = ["MISSING", "number", "pretty_unit", "quantity"]
+_AN_WORDS = ("hour", "honest", "heir")
+_A_WORDS = ("uni", "use", "usu", "user", "one", "once", "euro")
+
+
+def with_article(words: str) -> str:
+    """``words`` after "a" or "an", as it is spoken: the one place messages choose the article.
+
+    >>> with_article("angle"), with_article("length"), with_article("area"), with_article("unit")
+    ('an angle', 'a length', 'an area', 'a unit')
+    >>> with_article("80 mm bore"), with_article("18 kN load"), with_article("180 mm bore"), with_article("int")
+    ('an 80 mm bore', 'an 18 kN load', 'a 180 mm bore', 'an int')
+    """
+    text = words.strip()
+    low = text.lower()
+    digits = len(low) - len(low.lstrip("0123456789"))
+    if digits:
+        # spoken numbers: 8, 80, 800 ("eight..."), 11 and 18 ("eleven", "eighteen"), 11,000 and 18,000
+        lead = low[:digits]
+        an = lead.startswith("8") or (lead[:2] in ("11", "18") and len(lead) in (2, 5))
+    elif low.startswith(_AN_WORDS):
+        an = True
+    elif low.startswith(_A_WORDS):
+        an = False
+    else:
+        an = low[:1] in tuple("aeiou")
+    return f"{'an' if an else 'a'} {text}"
+
+
+def kind_of(value) -> str:
+    """What kind of Python value ``value`` is, in words for a message: ``"an int"``, ``"a list"``,
+    ``"None"``.
+
+    >>> kind_of(3), kind_of([1]), kind_of(None), kind_of({})
+    ('an int', 'a list', 'None', 'a dict')
+    """
+    if value is None:
+        return "None"
+    return with_article(type(value).__name__)
+
+
+__all__ = ["MISSING", "number", "pretty_unit", "quantity", "with_article", "kind_of"]

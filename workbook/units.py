@@ -53,8 +53,9 @@ from typing import Any
 
 import numpy as np
 
-from . import safetext
+from . import safetext, unit_spelling
 from .errors import InputError
+from .formatting import kind_of, with_article
 
 #: internal (SI) unit of each dimension name, as a pint unit expression
 INTERNAL_UNIT: dict[str, str] = {
@@ -105,22 +106,14 @@ EXAMPLES: dict[str, str] = {
 }
 
 _NUMBER = re.compile(r"^\s*([-+]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?)\s*(.*?)\s*$")
-_ALIASES = {
-    "°C": "degC",
-    "°F": "degF",
-    "℃": "degC",
-    "²": "**2",
-    "³": "**3",
-    "µ": "u",
-    "μ": "u",
-}
 
 
 @lru_cache(maxsize=1)
 def registry():
     """The workbook's single :class:`pint.UnitRegistry`, built on first use.
 
-    Adds ``gpm`` (US gallon per minute) and the customary ``cc`` if absent.
+    Adds ``gpm`` (US gallon per minute), the customary ``cc`` and ``rev`` (a revolution, as
+    in ``cc/rev``) if absent.
     """
     import pint
 
@@ -129,6 +122,8 @@ def registry():
         reg.define("gpm = gallon / minute")
     if "cc" not in reg:
         reg.define("cc = cm**3")
+    if "rev" not in reg:
+        reg.define("rev = revolution")
     return reg
 
 
@@ -143,9 +138,29 @@ def _check_dimension_name(dimension: str) -> None:
 
 
 def _clean_unit(text: str) -> str:
-    for old, new in _ALIASES.items():
-        text = text.replace(old, new)
-    return text
+    """Unit text as pint's expression (:func:`workbook.unit_spelling.normalise`)."""
+    return unit_spelling.normalise(text)
+
+
+#: dimension names whose words are not the name itself
+NOUNS = {"dimensionless": "plain number", "per_temperature": "coefficient per temperature"}
+
+
+def _noun(dimension: str) -> str:
+    """A dimension name as words: ``"kinematic viscosity"``, ``"plain number"``."""
+    return NOUNS.get(dimension, dimension.replace("_", " "))
+
+
+def _words(dimension: str) -> str:
+    """A dimension name as words with its article: ``"an angle"``, ``"a plain number"``."""
+    return with_article(_noun(dimension))
+
+
+def _allowed(dimension: str) -> str:
+    """What a quantity of ``dimension`` may be written as, e.g. ``an angle with a unit, e.g. 30 deg``."""
+    if dimension == "dimensionless":
+        return f"a plain number or a percentage, e.g. {EXAMPLES[dimension]}, 15 %"
+    return f"{_words(dimension)} with a unit, e.g. {EXAMPLES[dimension]}"
 
 
 #: the longest quantity text (number and unit) parsed; longer text is refused before pint sees it
@@ -200,23 +215,41 @@ def _parsed_unit(unit: str):
     return registry().Unit(unit)
 
 
+def _number_text(number) -> str:
+    """The number of a value as a person would retype it (for the advice in a message)."""
+    if isinstance(number, np.ndarray):
+        return "1" if number.size == 0 else _number_text(float(number.flat[0]))
+    return f"{float(number):g}"
+
+
+def _is_known(word: str) -> bool:
+    try:
+        _parsed_unit(word)
+    except Exception:  # noqa: BLE001 - pint raises several types
+        return False
+    return True
+
+
 def _quantity_of(number, unit: str, field: str, shown: Any, allowed: str):
-    """``Quantity(number, unit)`` after :func:`unit_problem`; every pint error as InputError."""
+    """``Quantity(number, unit)`` after :func:`unit_problem` and
+    :func:`~workbook.unit_spelling.mark_problem`; every pint error as InputError."""
     reg = registry()
-    problem = unit_problem(unit)
+    problem = unit_problem(unit) or unit_spelling.mark_problem(unit, _number_text(number))
     if problem is not None:
         raise InputError(field, shown, f"{allowed} ({problem})")
-    unit = _clean_unit(unit)
+    typed, unit = unit, _clean_unit(unit)
     try:
         return reg.Quantity(number, _parsed_unit(unit))
     except Exception as exc:  # noqa: BLE001 - pint raises several types (UndefinedUnitError, TokenError, ...)
-        raise InputError(field, shown, allowed + f" ('{unit}' is not a unit known here)") from exc
+        hint = unit_spelling.case_hint(unit, _is_known)
+        raise InputError(field, shown, allowed + f" ('{typed}' is not a unit known here"
+                         + (f"; {hint})" if hint else ")")) from exc
 
 
 def _as_quantity(value: Any, dimension: str, field: str, default_unit: str | None):
     """Turn text, a pint quantity or a number into a pint quantity (not yet converted)."""
     reg = registry()
-    allowed = f"a {dimension.replace('_', ' ')} with a unit, e.g. {EXAMPLES[dimension]}"
+    allowed = _allowed(dimension)
     if isinstance(value, reg.Quantity):
         return value
     if hasattr(value, "magnitude") and hasattr(value, "units"):
@@ -264,7 +297,7 @@ def _as_quantity(value: Any, dimension: str, field: str, default_unit: str | Non
                 raise InputError(field, repr(value), allowed + " (the unit is missing)")
             unit = default_unit or "dimensionless"
         return _quantity_of(number, unit, field, repr(value), allowed)
-    raise InputError(field, f"a {type(value).__name__}", allowed)
+    raise InputError(field, kind_of(value), allowed)
 
 
 def to_si(value: Any, dimension: str, field: str = "value", default_unit: str | None = None):
@@ -301,24 +334,74 @@ def to_si(value: Any, dimension: str, field: str = "value", default_unit: str | 
     _check_dimension_name(dimension)
     q = _as_quantity(value, dimension, field, default_unit)
     target = INTERNAL_UNIT[dimension]
+    shown = repr(value) if isinstance(value, str) else value
     if q.dimensionality != _dimensionality(dimension):
-        given = _describe_dimension(q.dimensionality)
-        raise InputError(
-            field,
-            repr(value) if isinstance(value, str) else value,
-            f"a {dimension.replace('_', ' ')} with a unit, e.g. {EXAMPLES[dimension]} ({given} was given)",
-        )
+        raise InputError(field, shown, f"{_allowed(dimension)} ({_understood(value, q, dimension)})")
     if dimension == "dimensionless" and str(q.units) not in DIMENSIONLESS_UNITS:
-        raise InputError(field, repr(value) if isinstance(value, str) else value,
-                         f"a plain number or a percentage, e.g. {EXAMPLES[dimension]}, 15 % "
-                         f"(not a quantity in {q.units})")
+        raise InputError(field, shown, f"{_allowed(dimension)} (not a quantity in {q.units})")
+    q = _per_turn(q, dimension, field, shown)
     magnitude = q.to(target).magnitude
     arr = np.asarray(magnitude, dtype=float)
     if not np.all(np.isfinite(arr)):
-        raise InputError(field, value, f"a finite {dimension.replace('_', ' ')} (not NaN or infinite)")
+        words = "number" if dimension == "dimensionless" else _noun(dimension)
+        raise InputError(field, value, f"a finite {words} (not NaN or infinite)")
     if arr.ndim == 0:
         return float(arr)
     return arr
+
+
+#: per dimension, the powers of the angle (radian) its units may carry, the internal unit's
+#: first: an angle 1; a shaft speed 1 (rpm) or 0 (``1/min``, ``Hz``: revolutions understood);
+#: a displacement 0 (``cm**3``: per revolution understood) or -1 (``cc/rev``). Pint counts the
+#: radian as dimensionless, so the power is checked here.
+ANGLE_POWERS = {"angle": (1,), "shaft_speed": (1, 0), "displacement": (0, -1)}
+
+
+@lru_cache(maxsize=256)
+def _angle_power(unit) -> int:
+    """The power of the radian in ``unit`` (a pint unit), e.g. 1 for rpm, -1 for cm**3/rev."""
+    root = registry().Quantity(1.0, unit).to_root_units()
+    return int(round(dict(root.unit_items()).get("radian", 0)))
+
+
+def _per_turn(q, dimension: str, field: str, shown: Any):
+    """``q`` with the angle of its dimension's internal unit (see :data:`ANGLE_POWERS`).
+
+    An angle must be written in an angle unit (``1 %`` is a ratio, refused). A shaft speed
+    written without the revolution (``1450 1/min``, ``25 Hz``) counts revolutions, as motor
+    plates mean it; a displacement written with it (``16 cc/rev``) is the volume of one
+    revolution. Pint alone would read ``1/min`` as a radian a minute (a sixth of the rpm).
+    """
+    allowed = ANGLE_POWERS.get(dimension)
+    if allowed is None:
+        return q
+    power = _angle_power(q.units)
+    if power not in allowed:
+        raise InputError(field, shown, f"{_allowed(dimension)} ({_understood(shown, q, dimension)})")
+    if power == allowed[0]:
+        return q
+    return q * registry().Quantity(1.0, "revolution") ** (allowed[0] - power)
+
+
+def _understood(value: Any, q, dimension: str) -> str:
+    """What the refused ``value`` (of quantity ``q``) was read as, and what to write instead."""
+    given = _describe(q)
+    number = unit = None
+    if isinstance(value, str):
+        match = _NUMBER.match(value.strip().strip("'"))
+        if match is not None:
+            number, unit = match.group(1), _clean_unit(match.group(2))
+    hint = unit_spelling.trap(unit or "", dimension, number, given)
+    return hint or f"{given} was given"
+
+
+def _describe(q) -> str:
+    """Words for the kind of quantity ``q`` is: ``"a mass"``, ``"an angle"``, ``"a percentage"``."""
+    if q.dimensionless:
+        if _angle_power(q.units) != 0:
+            return "an angle"
+        return "a percentage" if str(q.units) == "percent" else "a plain number"
+    return _describe_dimension(q.dimensionality)
 
 
 def from_si(value, dimension: str, unit: str):
@@ -366,12 +449,11 @@ def _describe_dimension(dimensionality) -> str:
         for name in INTERNAL_UNIT:
             if name in ("displacement",):
                 continue
-            _DIM_WORDS.setdefault(str(_dimensionality(name)), name.replace("_", " "))
-    word = _DIM_WORDS.get(str(dimensionality))
+            _DIM_WORDS.setdefault(_dimensionality(name), _noun(name))
+    word = _DIM_WORDS.get(dimensionality)   # by the dimensionality itself: its text depends on the order
     if word is None:
         return f"a quantity of dimension {dimensionality}"
-    article = "an" if word[0] in "aeiou" else "a"
-    return f"{article} {word}"
+    return with_article(word)
 
 
 def format_value(si_value: float, dimension: str, unit: str, digits: int = 4) -> str:

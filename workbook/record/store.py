@@ -48,6 +48,7 @@ except ImportError:  # not on this platform: no locks, stale temporary files are
 
 from .. import __version__, safetext
 from ..errors import InputError
+from ..formatting import kind_of
 from .errors import RecordError
 from .model import SUPPORTED_SCHEMA_VERSIONS, Record
 from .schema import SCHEMA_FILE, SCHEMA_FILES, first_problem
@@ -247,7 +248,7 @@ def save(record: Record, path) -> Path:
     lone surrogates) is refused here, before anything is written.
     """
     if not isinstance(record, Record):
-        raise InputError("record", f"a {type(record).__name__}", "a workbook.record.Record")
+        raise InputError("record", kind_of(record), "a workbook.record.Record")
     problem = _unsafe_text(record.to_dict())
     if problem is not None:
         where, given, allowed = problem
