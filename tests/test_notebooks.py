@@ -84,6 +84,36 @@ def test_scripted_entry_sets_a_value_the_notebook_does_not_have():
     assert checked >= 4
 
 
+def _suggested_entries():
+    from workbook.tools.notebooks import STUDIES
+
+    out = []
+    for name, (kind, axis, *_rest, try_line) in STUDIES.items():
+        m = re.fullmatch(r'panel\.set\("(\w+\.\w+)", "([^"]+)"\)', try_line)
+        if m is not None and axis is not None:
+            out.append(pytest.param(name, kind, axis, try_line, *m.groups(), id=name))
+    return out
+
+
+@pytest.mark.parametrize("name, kind, axis, try_line, field, text", _suggested_entries())
+def test_the_suggested_entry_changes_what_the_study_shows(name, kind, axis, try_line, field, text, tmp_path, monkeypatch):
+    """The entry a notebook suggests, typed into its panel, moves the study's results and its
+    summary (so trying it proves that an entry changes the result), and the notebook's text
+    is the template's."""
+    from workbook.tools.notebooks import DESIGN
+    from workbook.ui import open_study
+
+    nb = json.loads((ROOT / "notebooks" / name).read_text(encoding="utf-8"))
+    assert any(try_line in "".join(c["source"]) for c in nb["cells"] if c["cell_type"] == "markdown"), try_line
+    shutil.copytree(ROOT / "notebooks" / "designs", tmp_path / "designs")
+    monkeypatch.setenv("WORKBOOK_RECORDS_DIR", str(tmp_path / "records"))
+    panel = open_study(kind, tmp_path / DESIGN, axis=axis)
+    results, summary = json.dumps(panel.outcome.results, sort_keys=True), panel.summary()
+    assert panel.set(field, text), f"{name}: {try_line} was refused"
+    assert json.dumps(panel.outcome.results, sort_keys=True) != results, f"{name}: {try_line} moves no result"
+    assert panel.summary() != summary
+
+
 @pytest.mark.slow
 def test_nbval_bites_when_an_input_changes(tmp_path):
     """Re-running a study with one input changed makes nbval's comparison fail."""

@@ -159,7 +159,7 @@ def _non_ascii_record():
               findings=[{"rule_id": "P1", "statement": "Druck unter der Nenngröße ±0 %", "value": 18.0,
                          "limit": 210.0, "unit": "bar", "margin": 0.914, "level": "pass",
                          "source": "Datenblatt des Herstellers; 油圧 \U0001F6A7"}],
-              notes=["Öl: VG46, ν40 = 46 mm²/s"])
+              notes=["Öl: VG46, ν40 = 46 mm²/s", "Hubvolumen 6032 cm³"])
     return Record({"machine": "Kipper für Müllbehälter", "axis": "lift", "author": "Åsa Ødegård",
                    "date": "2026-11-30"}, {"sizing": s})
 
@@ -175,8 +175,10 @@ def test_digest_recipe_holds_for_a_non_ascii_record(tmp_path):
     doc = json.loads(path.read_text(encoding="utf-8"))
     stored = doc.pop("digest")
     canonical = json.dumps(doc, sort_keys=True, separators=(",", ":"), ensure_ascii=False).encode("utf-8")
-    # the characters themselves, not \u escapes: Ø is C3 98, ü C3 BC, 油 E6 B2 B9, 🚧 F0 9F 9A A7 (RFC 3629)
-    for raw in (b"\xc3\x98 1,4 mm", b"f\xc3\xbcr", b"\xe6\xb2\xb9", b"\xf0\x9f\x9a\xa7"):
+    # the characters themselves, not \u escapes: Ø is C3 98, ü C3 BC, ° C2 B0, ³ C2 B3, 油 E6 B2 B9,
+    # 🚧 F0 9F 9A A7 (RFC 3629, and the code points from the Unicode code charts)
+    for raw in (b"\xc3\x98 1,4 mm", b"f\xc3\xbcr", b"20 \xc2\xb0C", b"cm\xc2\xb3", b"\xe6\xb2\xb9",
+                b"\xf0\x9f\x9a\xa7"):
         assert raw in canonical, raw
     assert b"\\u" not in canonical
     # source: hashlib.sha256 over the canonical JSON described in store.py
