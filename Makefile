@@ -9,7 +9,7 @@ BIN    := $(VENV)/bin
 STAMP  := $(VENV)/.installed-stamp
 PORT   ?= 8888
 
-.PHONY: lab test test-fast fuzz bench refresh-notebooks demo-records mutation clean-venv
+.PHONY: lab test test-fast fuzz bench refresh-notebooks demo-records design-guide mutation clean-venv
 
 $(STAMP): pyproject.toml
 	$(PYTHON) -m venv $(VENV)
@@ -39,6 +39,11 @@ bench: $(STAMP)
 
 refresh-notebooks: $(STAMP)
 	$(BIN)/python -m workbook.tools.notebooks refresh notebooks
+
+# The guide to the design file (notebooks/designs/README.md), rendered from the catalogue in
+# workbook/inputs.py; tests/test_design_guide.py fails until it is rerun after a field changes.
+design-guide: $(STAMP)
+	$(BIN)/python -m workbook.tools.design_guide notebooks/designs/README.md
 
 # The demo's design records (revisions A and B of the bin tipper), committed under
 # notebooks/records/ as a design team commits its own. Revision A fails its tip axis (exit 1).
