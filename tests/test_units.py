@@ -127,7 +127,7 @@ ANGLE = "an angle with a unit, e.g. 30 deg"
      "(m is the metre; for minutes write 2 min)"),
     # a percent is a ratio, not an angle (slope 1 % = atan(0.01) = 0.5729 deg by hand)
     ("1 %", "angle", "inclination", f"inclination: got '1 %'; allowed: {ANGLE} "
-     "(a percent is a ratio, not an angle: write an angle such as 3 deg; a slope of 1 % rises at 0.5729 deg)"),
+     "(a percent is a ratio, not an angle: write an angle such as 3 deg; a slope of 1 % is an angle of 0.5729 deg)"),
     ("5 bar", "angle", "half_angle", f"half_angle: got '5 bar'; allowed: {ANGLE} (a pressure was given)"),
     ("1 %", "pressure", "setting", f"setting: got '1 %'; allowed: {PRESSURE} (a percentage was given)"),
     ("3 deg", "pressure", "setting", f"setting: got '3 deg'; allowed: {PRESSURE} (an angle was given)"),

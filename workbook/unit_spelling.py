@@ -152,7 +152,7 @@ def trap(unit: str, wanted: str, number: str | None, given: str) -> str | None:
     was not text), ``given`` the words for the dimension pint found ("a mass").
 
     >>> trap("%", "angle", "1", "a percentage")
-    'a percent is a ratio, not an angle: write an angle such as 3 deg; a slope of 1 % rises at 0.5729 deg'
+    'a percent is a ratio, not an angle: write an angle such as 3 deg; a slope of 1 % is an angle of 0.5729 deg'
     >>> trap("lb", "force", "10", "a mass")
     'lb is the pound as a mass; the pound-force is lbf: write 10 lbf'
     >>> trap("kg", "force", "80", "a mass")
@@ -166,7 +166,7 @@ def trap(unit: str, wanted: str, number: str | None, given: str) -> str | None:
             slope = math.degrees(math.atan(float(n) / 100.0))
         except ValueError:
             return text
-        return text + f"; a slope of {n} % rises at {slope:.4g} deg"
+        return text + f"; a slope of {n} % is an angle of {slope:.4g} deg"
     if wanted == "angle" and given in ("a plain number", "a percentage"):
         return "a plain number or ratio is not an angle: write the angle with its unit, e.g. 3 deg"
     if key in TRAPS and wanted in TRAPS[key][1]:

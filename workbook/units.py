@@ -146,14 +146,14 @@ def _clean_unit(text: str) -> str:
 NOUNS = {"dimensionless": "plain number", "per_temperature": "coefficient per temperature"}
 
 
-def _noun(dimension: str) -> str:
+def noun(dimension: str) -> str:
     """A dimension name as words: ``"kinematic viscosity"``, ``"plain number"``."""
     return NOUNS.get(dimension, dimension.replace("_", " "))
 
 
 def _words(dimension: str) -> str:
     """A dimension name as words with its article: ``"an angle"``, ``"a plain number"``."""
-    return with_article(_noun(dimension))
+    return with_article(noun(dimension))
 
 
 def _allowed(dimension: str) -> str:
@@ -343,7 +343,7 @@ def to_si(value: Any, dimension: str, field: str = "value", default_unit: str | 
     magnitude = q.to(target).magnitude
     arr = np.asarray(magnitude, dtype=float)
     if not np.all(np.isfinite(arr)):
-        words = "number" if dimension == "dimensionless" else _noun(dimension)
+        words = "number" if dimension == "dimensionless" else noun(dimension)
         raise InputError(field, value, f"a finite {words} (not NaN or infinite)")
     if arr.ndim == 0:
         return float(arr)
@@ -449,7 +449,7 @@ def _describe_dimension(dimensionality) -> str:
         for name in INTERNAL_UNIT:
             if name in ("displacement",):
                 continue
-            _DIM_WORDS.setdefault(_dimensionality(name), _noun(name))
+            _DIM_WORDS.setdefault(_dimensionality(name), noun(name))
     word = _DIM_WORDS.get(dimensionality)   # by the dimensionality itself: its text depends on the order
     if word is None:
         return f"a quantity of dimension {dimensionality}"
@@ -483,4 +483,7 @@ __all__ = [
     "unit_problem",
     "MAX_TEXT",
     "format_value",
+    "noun",
+    "NOUNS",
+    "ANGLE_POWERS",
 ]

@@ -201,7 +201,7 @@ def _unit(f: Field) -> str:
     dim = f.list_dimension if f.dimension == "quantity_list" else f.dimension
     if dim == "dimensionless":
         return f"{f.unit} (ratio)" if f.unit else "— (plain number)"
-    words = units.NOUNS.get(dim, dim.replace("_", " "))
+    words = units.noun(dim)
     return f"{pretty_unit(f.unit)} ({words})"
 
 
@@ -325,7 +325,7 @@ def _quantities() -> list[str]:
     for dim, examples in units.EXAMPLES.items():
         typed, _, note = examples.partition(" (")
         shown = ", ".join(f"`{e.strip()}`" for e in typed.split(","))
-        out.append(f"| {units.NOUNS.get(dim, dim.replace('_', ' '))} | {shown}{' (' + note if note else ''} |")
+        out.append(f"| {units.noun(dim)} | {shown}{' (' + note if note else ''} |")
     out += ["", "Spellings of the trade are read too:", "", "| You write | Read as |", "|---|---|"]
     for typed, dim, canonical in SPELLINGS:
         per = " per revolution" if dim == "displacement" else ""
