@@ -46,7 +46,7 @@ design-guide: $(STAMP)
 	$(BIN)/python -m workbook.tools.design_guide notebooks/designs/README.md
 
 # The demo's design records (revisions A and B of the bin tipper), committed under
-# notebooks/records/ as a design team commits its own. Revision A fails its tip axis (exit 1).
+# notebooks/records/ as a design team commits its own. Revision A fails (exit 1): tip ratings, lift buckling at its stop.
 demo-records: $(STAMP)
 	$(BIN)/axisbook evaluate notebooks/designs/bin-tipper.toml --out notebooks/records || [ $$? -eq 1 ]
 	$(BIN)/axisbook evaluate notebooks/designs/bin-tipper-rev-b.toml --out notebooks/records

@@ -45,7 +45,7 @@ CASES = [
      "oil temperature", "2 cSt"),
     ("nu100 above nu40", lambda: Oil(32e-6, 40e-6), "nu100", "below the 40 °C value"),
     ("unknown grade", lambda: Oil.from_grade("VG47"), "grade", "VG46"),
-    ("empty load list", lambda: _field("operation", "loads").parse([]), "loads", "at least one"),
+    ("empty pilot-ratio list", lambda: _field("study", "pilot_ratios").parse([]), "pilot_ratios", "at least one"),
     ("speed for a force in list", lambda: _field("operation", "loads").parse(["2 kN", "3 m/s"]), "loads",
      "a velocity was given"),
     ("unknown section key", lambda: inputs.CYLINDER.parse({"bore": "80 mm", "colour": "red"}, where="lift.cylinder"),

@@ -91,19 +91,25 @@ def test_evaluate_demo_writes_records_and_fails_on_the_tip(demo):
 
 
 def test_evaluate_lift_alone_on_the_design_checks_passes(tmp_path):
-    """The lift axis has cautions but no failing finding in its axis, rod-pressure and
-    counterbalance checks (demo scenario); --markdown writes the Markdown copy."""
-    code, out, err = axisbook("evaluate", DEMO, "--axis", "lift", "--study", "axis-check", "rod-pressure",
+    """Revision B's lift axis (its real mounting and buckling length given) has cautions but no
+    failing finding in its axis, rod-pressure and counterbalance checks (demo scenario);
+    --markdown writes the Markdown copy. Revision A's lift fails the buckling check extending
+    onto its stop at the relief pressure, on an estimated pinned length."""
+    rev_b = DEMO.parent / "bin-tipper-rev-b.toml"
+    code, out, err = axisbook("evaluate", rev_b, "--axis", "lift", "--study", "axis-check", "rod-pressure",
                               "counterbalance", "--out", tmp_path / "o", "--markdown", cwd=tmp_path)
     no_traceback(err)
     assert code == 0, out + err
     assert flat(out).startswith(CAUTION)
     assert "Axis lift: CAUTION: 0 fail" in out and "Axis tip" not in out
     assert sorted(p.name for p in (tmp_path / "o").iterdir() if not p.name.startswith(".")) == [
-        "bin-tipper-lift.html", "bin-tipper-lift.json", "bin-tipper-lift.md"]
-    assert CAUTION in (tmp_path / "o" / "bin-tipper-lift.md").read_text(encoding="utf-8").replace("\\", "")
-    assert set(load(tmp_path / "o" / "bin-tipper-lift.json").studies) == {"axis-check", "rod-pressure",
-                                                                          "counterbalance"}
+        "bin-tipper-rev-b-lift.html", "bin-tipper-rev-b-lift.json", "bin-tipper-rev-b-lift.md"]
+    assert CAUTION in (tmp_path / "o" / "bin-tipper-rev-b-lift.md").read_text(encoding="utf-8").replace("\\", "")
+    assert set(load(tmp_path / "o" / "bin-tipper-rev-b-lift.json").studies) == {"axis-check", "rod-pressure",
+                                                                                "counterbalance"}
+    code, out, err = axisbook("evaluate", DEMO, "--axis", "lift", "--study", "axis-check", "--out", tmp_path / "a",
+                              cwd=tmp_path)
+    assert code == 1 and "ROD-BUCKLING-STALL" in flat(out), out
 
 
 def test_evaluate_tip_with_higher_ratings_clears_the_rating_findings(tmp_path):
@@ -203,7 +209,7 @@ def test_compare_identical_and_changed_bore(tmp_path):
     only = ["--axis", "lift", "--study", "axis-check", "rod-pressure"]
     for out_dir in ("a", "b"):
         code, out, err = axisbook("evaluate", DEMO, *only, "--out", out_dir, cwd=tmp_path)
-        assert code == 0, out + err
+        assert code == 1, out + err          # revision A's lift fails ROD-BUCKLING-STALL
     # two evaluations of the same design give the same record: nothing moved
     code, out, err = axisbook("compare", "a/bin-tipper-lift.json", "b/bin-tipper-lift.json", cwd=tmp_path)
     assert code == 0, out + err

@@ -36,7 +36,9 @@ TABLE = {
     "H-CB-FACTOR": ("min", "caution", None, "156 bar"),
     "H-RATING": ("max", "fail", "pressure_margin", "210 bar"),
     "ROD-BUCKLING": ("max", "fail", None, "40 kN"),
-    "ROD-BUCKLING-STALL": ("max", "caution", None, "40 kN"),
+    # every cylinder can reach its stop: a stall beyond the buckling limit fails (common practice)
+    "ROD-BUCKLING-STALL": ("max", "fail", None, "40 kN"),
+    "WORK-FORCE": ("min", "fail", None, "120 kN"),
     "HEAT-SHARE": ("max", "caution", None, "2.25 kW"),
     "DRIVE-POWER": ("max", "fail", None, "7.5 kW"),
     "V-SUCTION": ("max", "caution", None, "1.2 m/s"),
@@ -48,7 +50,7 @@ TABLE = {
     "SUPPLY-STALL": ("max", "fail", None, "0"),
 }
 
-DIMENSION = {"P-": "pressure", "CAV": "pressure", "FV-": "pressure", "H-": "pressure", "ROD": "force",
+DIMENSION = {"P-": "pressure", "CAV": "pressure", "FV-": "pressure", "H-": "pressure", "ROD": "force", "WORK": "force",
              "HEAT": "power", "DRIVE": "power", "V-": "velocity"}
 
 

@@ -87,7 +87,7 @@ def test_an_entry_without_si_is_parsed_from_value_and_unit():
     ({"cylinder": {"bore_size": 0.08}}, "cylinder.bore_size", "one of bore, rod, stroke, rated_pressure"),
     ({"pump": {"displacement": 1.6e-5}}, "pump", "one of identity, cylinder"),
     ({"oil": {"grade": "VG47"}}, "oil.grade", "one of 'VG10'"),
-    ({"operation": {"loads": []}}, "operation.loads", "at least one"),
+    ({"study": {"pilot_ratios": []}}, "study.pilot_ratios", "at least one"),
 ])
 def test_bad_values_name_the_field_and_what_is_allowed(values, field, allowed):
     with pytest.raises(InputError) as info:

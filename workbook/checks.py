@@ -26,7 +26,7 @@ from typing import Callable, Mapping
 import numpy as np
 
 from . import CAUTION
-from .circuit import CLOSED, DRIVEN_BACK, HELD, STALLED, STARVED, UNCONTROLLED, Axis, Solution, solve
+from .circuit import CLOSED, DRIVEN_BACK, HELD, STALLED, STARVED, UNCONTROLLED, Axis, Solution, solve, stall
 from .constants import BAR as _BAR
 from .constants import T0_C, TO_LPM
 from .errors import InputError
@@ -92,14 +92,17 @@ class _Context:
 
     def __init__(self, axis: Axis, limits: Mapping):
         self.axis, self.limits = axis, limits
-        loads = np.asarray(axis.loads, dtype=float)[:, None]
         temps = np.linspace(axis.temp_min, axis.temp_max, N_TEMPERATURES if axis.temp_max > axis.temp_min else 1)
         self.temps = temps
         self.cases: list[tuple[str, float, Solution]] = []
         for direction in ("extend", "retract"):
+            loads = np.asarray(axis.loads_for(direction), dtype=float)[:, None]   # the cases of this motion
             for opening in (1.0, 0.0):
                 sol = solve(axis, loads, temps[None, :], direction, opening)
                 self.cases.append((direction, opening, sol))
+        #: the axis against its stop (or the work) at the end of each motion, every temperature:
+        #: a duty of every cylinder (it can always reach its stop), graded by the rating rules
+        self.stalls: list[tuple[str, Solution]] = [(d, stall(axis, d, temps)) for d in ("extend", "retract")]
 
     def all(self):
         return [s for _, _, s in self.cases]
@@ -107,26 +110,34 @@ class _Context:
     def controlled_open(self) -> Solution:
         return next(s for d, o, s in self.cases if d == self.axis.controlled and o == 1.0)
 
-    def worst(self, getter, fn=np.max):
-        """(value, description) of the extreme of ``getter(sol)`` over every case."""
+    def worst(self, getter, fn=np.max, stalls: bool = False):
+        """(value, description) of the extreme of ``getter(sol)`` over every motion case, and
+        over the stalls at the end of each stroke when ``stalls``."""
         best = None
-        for d, o, s in self.cases:
+        every = [(d, o, s) for d, o, s in self.cases] + ([(d, None, s) for d, s in self.stalls] if stalls else [])
+        for d, o, s in every:
             arr = np.asarray(getter(s), dtype=float)
             idx = np.unravel_index(np.argmax(arr) if fn is np.max else np.argmin(arr), arr.shape)
             val = float(arr[idx])
             if best is None or (val > best[0] if fn is np.max else val < best[0]):
-                where = (f"{d}, valve {'closed' if o == 0.0 else 'open'}, load {float(s.load[idx]) / 1e3:g} kN, "
-                         f"oil {float(s.temperature[idx]) - T0_C:.0f} degC, {s.regime[idx]}")
+                oil = f"oil {float(s.temperature[idx]) - T0_C:.0f} degC"
+                if o is None:
+                    where = (f"{d}, stalled at the end of the stroke or on the work (the relief passes the whole "
+                             f"pump flow), {oil}")
+                else:
+                    where = (f"{d}, valve {'closed' if o == 0.0 else 'open'}, load {float(s.load[idx]) / 1e3:g} kN, "
+                             f"{oil}, {s.regime[idx]}")
                 best = (val, where)
         return best
 
 
 def _pressure_rule(rule_id, what, getter, rating, rating_words, source):
     def measure(ctx):
-        val, where = ctx.worst(getter)
+        val, where = ctx.worst(getter, stalls=True)
         return val, rating(ctx.axis), f"highest {what} at: {where}; limit: {rating_words}"
     return Rule(rule_id, f"The {what} stays within the {rating_words} in every case, the valve-closed case "
-                         "included.", what, "pressure", "max", source, measure, margin_key="pressure_margin")
+                         "and the stall at the end of each stroke included.", what, "pressure", "max", source, measure,
+                margin_key="pressure_margin")
 
 
 def _cavitation_rule(rule_id, chamber, getter):
@@ -325,17 +336,39 @@ def _buckling(ctx):
                              f"({_buckling_words(c)}) / {k:g}")
 
 
+def _stall_extend(ctx) -> Solution:
+    return next(s for d, s in ctx.stalls if d == "extend")
+
+
 def _buckling_stall(ctx):
-    """The force the cylinder develops stalled against a stop (relief full-flow pressure on the
-    piston, rod side at tank pressure) against the same Euler limit."""
-    a = ctx.axis
-    c = a.cylinder
-    force = (a.supply.relief.full_flow + a.tank_pressure) * c.a1 - a.tank_pressure * c.a3
+    """The force the cylinder develops stalled extending against a stop or the work (the
+    driving chamber at the pressure the relief holds with the whole pump flow, the rod side as
+    its return path leaves it, :func:`workbook.circuit.stall`) against the same limit. Every
+    cylinder can reach its stop, so a breach fails."""
+    c = ctx.axis.cylinder
+    s = _stall_extend(ctx)
+    push = np.asarray(c.force(s.p1, s.p3), dtype=float)
+    i = int(np.argmax(push))
     f_crit = c.buckling_load()
     k = ctx.limits["buckling_factor"]
-    return force, f_crit / k, (f"{_buckling_words(c)}; relief full-flow pressure {a.supply.relief.full_flow / _BAR:g} bar above the "
-                                f"{a.tank_pressure / _BAR:g} bar tank back pressure on the "
-                                f"piston; matters if the rod can be driven against a stop or an obstacle")
+    return float(push.flat[i]), f_crit / k, (
+        f"{_buckling_words(c)}; extending onto the stop or the work, cap chamber at "
+        f"{float(np.asarray(s.p1).flat[i]) / _BAR:.4g} bar, rod side at {float(np.asarray(s.p3).flat[i]) / _BAR:.4g} bar")
+
+
+def _work_force(ctx):
+    """The force the rod exerts stalled at the end of the working motion against the work force."""
+    a = ctx.axis
+    if a.work_force is None:
+        return None
+    s = next(s for d, s in ctx.stalls if d == a.work_motion)
+    push = np.asarray(s.load, dtype=float) * (1.0 if a.work_motion == "extend" else -1.0)
+    i = int(np.argmin(push))
+    drive = "cap" if a.work_motion == "extend" else "rod"
+    p_drive = float(np.asarray(s.p1 if drive == "cap" else s.p3).flat[i])
+    return float(push.flat[i]), a.work_force, (
+        f"{a.work_motion}ing onto the work, {drive} chamber at {p_drive / _BAR:.4g} bar (the relief with the whole "
+        f"pump flow), oil {float(np.asarray(s.temperature).flat[i]) - T0_C:.0f} degC; friction not counted")
 
 
 #: every rule, in the order the record lists them
@@ -373,7 +406,9 @@ RULES: tuple[Rule, ...] = (
     Rule("ROD-BUCKLING-STALL", "Stalled against a stop at the relief pressure, the rod stays below the "
          "buckling load divided by the safety factor.", "rod force at relief pressure", "force", "max",
          "Euler buckling (pi^2 E I / (K L)^2), Johnson parabola below the transition slenderness (Shigley); "
-         "safety factor common practice (from memory)", _buckling_stall, broken="caution"),
+         "safety factor common practice (from memory)", _buckling_stall),
+    Rule("WORK-FORCE", "Stalled on the work at the relief pressure, the rod applies at least the work force.",
+         "rod force on the work", "force", "min", "force balance; work force from the design", _work_force),
     Rule("HEAT-SHARE", "Throttling heat stays within the allowed share of the installed drive power.",
          "throttling heat", "power", "max", "common practice", _heat, broken="caution"),
     Rule("DRIVE-POWER", "The pump never needs more shaft power than the installed drive.",

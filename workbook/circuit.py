@@ -185,7 +185,10 @@ class Ratings:
 class Axis:
     """One cylinder axis, everything in SI (see the module text for the circuit).
 
-    ``loads`` are the design load cases (N, positive pushing the rod in); ``temp_min`` and
+    ``loads`` are the design load cases (N, positive pushing the rod in) of either motion;
+    ``loads_extend`` / ``loads_retract`` the cases of one motion (empty: ``loads``), see
+    :meth:`loads_for`; ``work_force`` (N, or None) the force the rod must apply at the end of
+    ``work_motion`` (a stall at the work, graded like the end of every stroke); ``temp_min`` and
     ``temp_max`` the oil temperature range (K); ``target_speed`` (m/s) and
     ``speed_tolerance`` (fraction) apply to the ``controlled`` motion.
     """
@@ -201,6 +204,10 @@ class Axis:
     friction: float = 0.0
     tank_pressure: float = 0.0
     loads: tuple = (0.0,)
+    loads_extend: tuple = ()
+    loads_retract: tuple = ()
+    work_force: float | None = None
+    work_motion: str = "extend"
     temp_min: float = 313.15
     temp_max: float = 313.15
     target_speed: float | None = None
@@ -223,10 +230,16 @@ class Axis:
                 raise InputError(name, v, "a finite value of at least 0")
         if not (math.isfinite(self.cavitation_abs) and 0.0 <= self.cavitation_abs < P_ATM):
             raise InputError("cavitation_abs", self.cavitation_abs, "an absolute pressure from 0 to 1 atm")
-        loads = tuple(float(x) for x in np.atleast_1d(np.asarray(self.loads, dtype=float)))
-        if not loads or not all(math.isfinite(x) for x in loads):
-            raise InputError("loads", self.loads, "a list of finite forces")
-        object.__setattr__(self, "loads", loads)
+        for name in ("loads", "loads_extend", "loads_retract"):
+            given = getattr(self, name)
+            loads = tuple(float(x) for x in np.atleast_1d(np.asarray(given, dtype=float)))
+            if (name == "loads" and not loads) or not all(math.isfinite(x) for x in loads):
+                raise InputError(name, given, "a list of finite forces")
+            object.__setattr__(self, name, loads)
+        if self.work_motion not in DIRECTIONS:
+            raise InputError("work_motion", repr(self.work_motion), "one of 'extend', 'retract'")
+        if self.work_force is not None and not (math.isfinite(self.work_force) and self.work_force >= 0):
+            raise InputError("work_force", self.work_force, "a finite force of at least 0 kN")
         if self.temp_max < self.temp_min:
             raise InputError("temp_max", f"{self.temp_max - T0_C:g} degC",
                              f"a temperature at least the cold temperature ({self.temp_min - T0_C:g} degC)")
@@ -236,6 +249,25 @@ class Axis:
             raise InputError("tank_pressure", f"{self.tank_pressure / _BAR:g} bar",
                              f"a back pressure below the relief cracking pressure "
                              f"({self.supply.relief.cracking / _BAR:g} bar)")
+
+    def loads_for(self, direction: str) -> tuple:
+        """The load cases (N) that act while the rod moves in ``direction``.
+
+        >>> from workbook.cylinder import Cylinder
+        >>> from workbook.fluid import Oil
+        >>> from workbook.supply import Supply, Pump, ReliefValve
+        >>> from workbook.valve import CompensatedFlowValve
+        >>> ax = Axis(Cylinder(0.1, 0.07, 0.5), Oil.from_grade("VG46"),
+        ...           Supply(Pump(30 / 6e4), ReliefValve(190e5, 200e5, 30 / 6e4)),
+        ...           CompensatedFlowValve.from_setting(12 / 6e4, 870.0),
+        ...           loads=(0.0, 120e3), loads_extend=(120e3,), loads_retract=(0.0,))
+        >>> ax.loads_for("extend"), ax.loads_for("retract")
+        ((120000.0,), (0.0,))
+        """
+        if direction not in DIRECTIONS:
+            raise InputError("direction", repr(direction), "one of 'extend', 'retract'")
+        own = getattr(self, f"loads_{direction}")
+        return own if own else self.loads
 
     @property
     def cavitation_gauge(self) -> float:
@@ -1033,17 +1065,31 @@ def _flow_valve_from_values(fv: Mapping, oil: Oil):
 
 
 
-def design_loads(operation: Mapping) -> np.ndarray:
+def design_loads(operation: Mapping, direction: str | None = None) -> np.ndarray:
     """The load cases of the ``operation`` section with the moving mass's weight along the rod.
 
     ``F_i = F_case,i + m g sin(inclination)`` (N): an inclination above horizontal with the
     rod end up makes the weight push the rod in (positive, the workbook's sign); 0 leaves the
     load cases as given.
 
+    ``direction`` ("extend" or "retract") gives the cases of that motion: ``loads`` (both
+    motions) followed by ``loads_extend`` or ``loads_retract``; without it, every case of
+    either motion. Where no list holds a case the motion runs with no external force (the
+    weight alone).
+
     >>> design_loads({"loads": [1000.0], "mass": 100.0, "inclination": math.pi / 2}).round(3).tolist()
     [1980.665]
+    >>> op = {"loads": [], "loads_extend": [120e3], "mass": 1500.0, "inclination": -math.pi / 2}
+    >>> design_loads(op, "extend").round(1).tolist(), design_loads(op, "retract").round(1).tolist()
+    ([105290.0], [-14710.0])
     """
-    loads = np.asarray(operation["loads"], dtype=float)
+    if direction is not None and direction not in DIRECTIONS:
+        raise InputError("direction", repr(direction), "one of 'extend', 'retract'")
+    parts = [operation.get("loads") or []]
+    for d in DIRECTIONS:
+        if direction in (None, d):
+            parts.append(operation.get(f"loads_{d}") or [])
+    loads = np.asarray([float(x) for part in parts for x in part] or [0.0], dtype=float)
     angle = float(operation.get("inclination") or 0.0)
     mass = float(operation.get("mass") or 0.0)
     return loads + mass * G_STANDARD * math.sin(angle)
@@ -1065,6 +1111,8 @@ _QUALIFIED = {
     "spring_chamber": "holding.spring_chamber", "open_gradient": "holding.open_gradient",
     "overall_efficiency": "supply.overall_efficiency",
     "friction": "operation.friction", "tank_pressure": "operation.tank_pressure", "loads": "operation.loads",
+    "loads_extend": "operation.loads_extend", "loads_retract": "operation.loads_retract",
+    "work_force": "operation.work_force", "work_motion": "operation.work_motion",
     "temp_min": "operation.temp_min", "temp_max": "operation.temp_max",
     "cavitation_abs": "limits.cavitation_abs",
 }
@@ -1142,6 +1190,8 @@ def _axis_from_values(values: Mapping[str, Mapping]) -> Axis:
     axis = Axis(cylinder=cylinder, oil=oil, supply=supply, flow_valve=valve, arrangement=fv["arrangement"],
                 controlled=fv["direction"], holding=holding, holding_side=hold.get("side", "cap"),
                 friction=op["friction"], tank_pressure=op["tank_pressure"], loads=tuple(design_loads(op)),
+                loads_extend=tuple(design_loads(op, "extend")), loads_retract=tuple(design_loads(op, "retract")),
+                work_force=op.get("work_force"), work_motion=op.get("work_motion") or "extend",
                 temp_min=op["temp_min"], temp_max=op["temp_max"], target_speed=op.get("target_speed"),
                 speed_tolerance=op.get("speed_tolerance", 0.15), mass=op.get("mass", 0.0), ratings=ratings,
                 cavitation_abs=cav, air_content=oil_v.get("air_content") or 0.0)
@@ -1160,7 +1210,7 @@ def cautious_counterbalance(axis: Axis) -> CounterbalanceValve:
     the difference can be large either way (force balance on the poppet, see
     :class:`~workbook.valve.CounterbalanceValve`)."""
     lower = "retract" if axis.holding_side == "cap" else "extend"
-    loads = np.asarray(axis.loads, dtype=float)
+    loads = np.asarray(axis.loads_for(lower), dtype=float)
     peaks = {}
     for chamber in ("outlet-referenced", "vented"):
         cb = replace(axis.holding, spring_chamber=chamber)
@@ -1170,8 +1220,83 @@ def cautious_counterbalance(axis: Axis) -> CounterbalanceValve:
     return ven[1] if ven[0] > out[0] * (1 + 1e-9) else out[1]
 
 
+def stall(axis: Axis, direction: str, temperature) -> Solution:
+    """The axis against its end stop, or the work, at the end of ``direction``.
+
+    Nothing moves and nothing flows to the cylinder, so the whole pump flow crosses the
+    relief (and, bleed-off, the bleed valve): the line pressure ``p`` solves
+    ``Q_relief(p) + Q_bleed(p - p_t) = Q_pump``, and with no flow there is no drop across
+    the flow valve or a check, so the driving chamber sits at ``p``. The other chamber is
+    at the return path's zero-flow pressure: the tank back pressure ``p_t``; behind a
+    back-pressure valve its setting ``p_t + p_s`` (the pressure it traps when the piston
+    stops, an upper bound); behind a counterbalance piloted by the driving chamber
+    ``max(p_t, p_s + k p_t - R p)`` (fully opened by the pilot at the usual settings). Any
+    cylinder can reach its stop, so every rating applies to this state; a press or clamp
+    lives in it (the work force is the stop's reaction).
+
+    ``temperature`` (K, scalar or array) sets the pump's delivered flow and the bleed valve's
+    law. Returns a :class:`Solution` with regime ``stalled`` and speed 0 everywhere; ``load``
+    holds the force the piston then exerts on the stop, ``p_d A_d - p_o A_o`` (N, positive
+    pushing away from the driving chamber, friction not counted: at rest it takes no side).
+
+    Worked example (by hand, no bleed): relief cracking 160 bar, full flow 172 bar at the
+    pump's 21.6 L/min, draining into a 2 bar return line (its settings are over its outlet):
+    it passes the whole pump flow at 172 + 2 = 174 bar, so the cap chamber is at 174 bar when
+    the rod extends onto its stop; on an 80/45 cylinder it pushes
+    ``174e5 x 50.27e-4 - 2e5 x 34.36e-4 = 86.8 kN``.
+
+    >>> from workbook.cylinder import Cylinder
+    >>> from workbook.fluid import Oil
+    >>> from workbook.supply import Supply, Pump, ReliefValve
+    >>> from workbook.valve import CompensatedFlowValve
+    >>> oil = Oil.from_grade("VG46")
+    >>> ax = Axis(Cylinder(0.080, 0.045, 0.6, 210e5), oil,
+    ...           Supply(Pump(21.6 / 60000), ReliefValve(160e5, 172e5, 21.6 / 60000)),
+    ...           CompensatedFlowValve.from_setting(12 / 60000, float(oil.density(313.15))),
+    ...           arrangement="meter-in", controlled="extend", tank_pressure=2e5)
+    >>> st = stall(ax, "extend", 313.15)
+    >>> round(float(st.p1) / 1e5, 2), round(float(st.p3) / 1e5, 2), str(st.regime), round(float(st.load) / 1e3, 1)
+    (174.0, 2.0, 'stalled', 86.8)
+    """
+    if direction not in DIRECTIONS:
+        raise InputError("direction", repr(direction), "one of 'extend', 'retract'")
+    temp = np.asarray(temperature, dtype=float)
+    shape = temp.shape
+    base = solve(axis, np.zeros(shape), temp, direction)
+    lay = _layout(axis, direction)
+    rho = np.asarray(axis.oil.density(temp), dtype=float) * np.ones(shape)
+    mu = np.asarray(axis.oil.dynamic_viscosity(temp), dtype=float) * np.ones(shape)
+    m = _Model(axis, lay, np.zeros(shape), rho, mu, 1.0)
+    pt, qp = m.pt, m.qp
+
+    def resid(p):
+        return m.relief_flow(p) + m.q_bleed(p - pt) - qp
+
+    hi = np.full(shape, max(2.0 * axis.supply.relief.full_flow, axis.supply.relief.full_flow + 10 * _BAR))
+    p_line = solve_increasing(resid, np.full(shape, pt), hi, 1e-9 * hi, 1e-13 * qp)
+    p_d = p_line
+    hold = axis.holding
+    if lay.hold_driven and isinstance(hold, CounterbalanceValve):
+        p_o = np.maximum(pt, hold.setting + hold.outlet_factor * pt - hold.pilot_ratio * p_d)
+    elif lay.hold_driven:
+        p_o = np.full(shape, pt + hold.setting)
+    else:
+        p_o = np.full(shape, pt)
+    p1, p3 = _chambers(lay, p_d, p_o)
+    q_relief = m.relief_flow(p_line)
+    q_bleed = m.q_bleed(p_line - pt)
+    z = np.zeros(shape)
+    state = dict(load=lay.s * (p_d * lay.a_d - p_o * lay.a_o), speed=z, p1=p1, p3=p3, p_pump=p_line, p_mid=p_line,
+                 p_pilot=p_d if isinstance(hold, CounterbalanceValve) else z, q_relief=q_relief, q_bleed=q_bleed,
+                 q_cylinder_in=z, q_cylinder_out=z, q_void=z, q_flow_valve=z, dp_flow_valve=z, q_holding=z,
+                 dp_holding=z, friction_force=z, unbalanced_force=z, p1_demand=p1, p3_demand=p3, useful_power=z,
+                 friction_power=z, input_power=p_line * qp, loss_flow_valve=z, loss_holding=z,
+                 loss_relief=(p_line - pt) * q_relief, loss_return_line=pt * (q_relief + q_bleed), efficiency=z)
+    return _overlay(base, np.ones(shape, dtype=bool), state, STALLED)
+
+
 __all__ = ["Axis", "Ratings", "Solution", "solve", "natural_frequency", "chamber_modulus",
-           "cautious_counterbalance", "axis_from_values", "design_loads", "G_STANDARD", "solve_increasing",
+           "cautious_counterbalance", "axis_from_values", "stall", "design_loads", "G_STANDARD", "solve_increasing",
            "REGIMES",
            "ARRANGEMENTS", "DIRECTIONS", "METERING", "STARVED", "PUMP_LIMITED", "RELIEF", "STALLED", "HELD",
            "CLOSED", "RUNAWAY", "CAVITATING", "SINKING", "DRIVEN_BACK", "UNCONTROLLED", "CAVITATION_ABS_DEFAULT"]

@@ -181,6 +181,8 @@ class Field:
         if self.dimension == "quantity_list":
             if isinstance(value, str):
                 value = [v for v in value.replace(";", ",").split(",") if v.strip()]
+            if isinstance(value, (list, tuple)) and not value and self.optional:
+                return []                      # an optional list may be empty
             if not isinstance(value, (list, tuple)) or not value:
                 raise InputError(self.key, repr(value), self.allowed() + " (at least one)")
             return [self._parse_one(v, self.list_dimension) for v in value]
@@ -239,7 +241,7 @@ class Field:
         elif self.dimension == "choice":
             base["enum"] = list(self.choices)
         elif self.dimension == "quantity_list":
-            base.update({"type": "array", "items": {"type": "number"}, "minItems": 1})
+            base.update({"type": "array", "items": {"type": "number"}, "minItems": 0 if self.optional else 1})
         else:
             base["type"] = "number"
         if self.optional:

@@ -194,9 +194,23 @@ OPERATION = Section(
     "operation",
     "Operation",
     (
-        Field("loads", "Load cases", "quantity_list", "kN", [2, 6, 10], list_dimension="force", low=-5e4, high=5e4,
-              help="external force on the rod, positive pushing it in (resists extension, overruns retraction)",
+        Field("loads", "Load cases, both motions", "quantity_list", "kN", [2, 6, 10], list_dimension="force",
+              low=-5e4, high=5e4, optional=True,
+              help="external force on the rod while it moves either way, positive pushing it in (resists "
+                   "extension, overruns retraction); may be [] when the lists of each motion hold the cases",
               source="demo scenario"),
+        Field("loads_extend", "Load cases, extending only", "quantity_list", "kN", None, list_dimension="force",
+              low=-5e4, high=5e4, optional=True,
+              help="external forces that act only while the rod extends (same sign: positive pushes the rod in)"),
+        Field("loads_retract", "Load cases, retracting only", "quantity_list", "kN", None, list_dimension="force",
+              low=-5e4, high=5e4, optional=True,
+              help="external forces that act only while the rod retracts (same sign: positive pushes the rod in)"),
+        Field("work_force", "Force at the work", "force", "kN", None, low=0, high=5e4, optional=True,
+              help="force the rod must apply at the end of the working motion (pressing, clamping, splitting): "
+                   "the axis stalls there with the driving chamber at the relief pressure"),
+        Field("work_motion", "Working motion", "choice", "", "extend", choices=("extend", "retract"),
+              help="the motion at whose end the work force is applied", source="common practice (most presses "
+                   "and clamps work extending)"),
         Field("friction", "Running friction", "force", "kN", 1.0, low=0, high=1e5,
               help="seal friction opposing motion; typically 2 to 5 bar on the bore (80 mm: 1.0 to 2.5 kN)",
               source="from memory (2 to 5 bar equivalent; 2 bar on the default 80 mm bore)"),

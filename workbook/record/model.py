@@ -166,7 +166,7 @@ def _entry(f: Field, entry: Any, where: str) -> dict:
         raise InputError(where, safetext.excerpt(shown, 60), exc.allowed) from None
     if f.dimension == "quantity_list":
         out = {"value": _numbers(value, f"{where}.value"), "unit": unit}
-        if not out["value"]:
+        if not out["value"] and not f.optional:
             raise InputError(f"{where}.value", "an empty list", f.allowed() + " (at least one)")
         if "si" in entry:
             out["si"] = _numbers(entry["si"], f"{where}.si")

@@ -46,7 +46,7 @@ def _value_schema(f: Field) -> dict:
 
 def _si_schema(f: Field) -> dict:
     if f.dimension == "quantity_list":
-        base = {"type": "array", "items": {"type": "number"}, "minItems": 1}
+        base = {"type": "array", "items": {"type": "number"}, "minItems": 0 if f.optional else 1}
     else:
         base = {"type": "number"}
     return {"anyOf": [base, {"type": "null"}]} if f.optional else base

@@ -49,7 +49,7 @@ def run(values) -> Outcome:
         unit = DISPLAY_UNIT.get(f.dimension, "")
         findings.append(finding(f.rule_id, f.statement, f.quantity, f.value, f.limit, f.dimension, unit,
                                 f.level, f.source, f.margin, f.detail))
-    loads = np.asarray(axis.loads, dtype=float)
+    loads = np.asarray(axis.loads_for(axis.controlled), dtype=float)   # the controlled motion's cases
     temps = np.array([axis.temp_min, axis.temp_max])
     sol = solve(axis, loads[:, None], temps[None, :])
     closed = solve(axis, loads, axis.temp_min, opening=0.0) if axis.arrangement != "bleed-off" else None

@@ -36,15 +36,16 @@ def build_axis(values) -> Axis:
     return axis_from_values(values)
 
 
-def sweep_range(values) -> tuple[float, float]:
+def sweep_range(values, direction: str | None = None) -> tuple[float, float]:
     """``(lowest, highest)`` load of the curves, N.
 
-    ``study.load_min`` / ``study.load_max`` when given; otherwise the load cases' range (with
-    the weight along the rod, :func:`~workbook.circuit.design_loads`) widened by a quarter of
-    its span on each side (at least 1 kN wide).
+    ``study.load_min`` / ``study.load_max`` when given; otherwise the range of the load cases
+    of ``direction`` (all of them when None; with the weight along the rod,
+    :func:`~workbook.circuit.design_loads`) widened by a quarter of its span on each side (at
+    least 1 kN wide).
     """
     st = values["study"]
-    cases = design_loads(values["operation"])
+    cases = design_loads(values["operation"], direction)
     span = max(float(cases.max() - cases.min()), 1e3)
     lo = st.get("load_min")
     hi = st.get("load_max")
@@ -53,10 +54,10 @@ def sweep_range(values) -> tuple[float, float]:
     return lo, hi
 
 
-def sweep(values, n: int | None = None) -> np.ndarray:
+def sweep(values, n: int | None = None, direction: str | None = None) -> np.ndarray:
     """Loads of the curves, N, from :func:`sweep_range`, ``study.points`` of them."""
     st = values["study"]
-    lo, hi = sweep_range(values)
+    lo, hi = sweep_range(values, direction)
     if not lo < hi:
         raise InputError("study.load_max", f"{hi / 1e3:g} kN", f"a load above the lowest sweep load ({lo / 1e3:g} kN)")
     n = int(n or st.get("points", 400))

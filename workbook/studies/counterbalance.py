@@ -69,7 +69,7 @@ def run(values) -> Outcome:
     side = hold["side"]
     lower = lowering_direction(side)
     c = base.cylinder
-    cases = np.asarray(base.loads, dtype=float)
+    cases = np.asarray(base.loads_for(lower), dtype=float)   # the lowering cases: what the valve meters
     p_load = np.asarray(base.holding_pressure(cases))
     p_load_max = float(p_load.max())
     if p_load_max <= 0:
@@ -78,7 +78,7 @@ def run(values) -> Outcome:
     factor = lim["counterbalance_factor"]
     recommended = factor * p_load_max
     setting = hold["setting"]
-    loads = sweep(values)
+    loads = sweep(values, direction=lower)
     t_cold = op["temp_min"]
     ratios = [r for r in values["study"]["pilot_ratios"]]
     if any(not r > 0 for r in ratios):
@@ -194,13 +194,17 @@ def run(values) -> Outcome:
                                  float(np.max(np.asarray(chosen_sol.p_pilot))), "pressure", "bar")
     level, margin = grade(heat, lim["heat_share"] * drive, 0.0)
     level = "caution" if level == "fail" else level  # heat needs a cooler or a duty-cycle check, not a stop
+    # where the heat arises at the worst case: the counterbalance is one source among several
+    parts = {"relief": chosen_sol.loss_relief, "flow valve": chosen_sol.loss_flow_valve,
+             "counterbalance": chosen_sol.loss_holding, "return line": chosen_sol.loss_return_line}
+    split = ", ".join(f"{name} {float(np.asarray(v).flat[worst]) / 1e3:.3g} kW" for name, v in parts.items())
     findings.append(finding(
-        "CB-HEAT", f"Heat while lowering with the chosen {hold['pilot_ratio']:g}:1 ratio stays within the heat "
+        "CB-HEAT", "Heat of the whole axis while lowering on the counterbalance stays within the heat "
         "share of the drive power", "throttling heat", heat, lim["heat_share"] * drive, "power", "kW", level,
         "common practice", margin,
         detail="; ".join(filter(None, [
-            f"the whole axis's heat (valves, relief, return line), worst at "
-            f"{float(cases[worst]) / 1e3:g} kN ({worst_regime})",
+            f"the whole axis's heat, worst at {float(cases[worst]) / 1e3:g} kN ({worst_regime}): {split} "
+            f"(chosen ratio {hold['pilot_ratio']:g}:1)",
             ("not lowering at " + ", ".join(still) + ": there the whole pump flow crosses the relief")
             if still else "",
             "with a meter-out valve in series the pump runs at relief pressure while lowering; "

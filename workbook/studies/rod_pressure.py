@@ -22,7 +22,7 @@ import math
 
 import numpy as np
 
-from ..circuit import design_loads, solve
+from ..circuit import solve
 from ..cylinder import ISO3320_RODS_MM
 from .base import Outcome, curve, finding, grade, result
 from .common import AXIS_FIELDS, FLOW_VALVE_FIELDS, HOLDING_FIELDS, build_axis, sweep
@@ -51,24 +51,32 @@ def _worst(sol, name):
     return np.max(np.asarray(getattr(sol, name)), axis=1)
 
 
-def cases(values, loads=None):
-    """Solve every case; return ``(axis, loads, {case: (p1, p3, regimes)})``.
+def cases(values, design: bool = False):
+    """Solve every case; return ``(axis, {case: (p1, p3, regimes, loads)})``.
 
-    ``loads`` defaults to the curve sweep; the findings use the design's load cases.
+    With ``design`` each motion runs at its own load cases (:meth:`Axis.loads_for`, what the
+    findings use); otherwise every case runs over the curve sweep.
     """
     axis = build_axis(values)
     op = values["operation"]
-    loads = sweep(values) if loads is None else np.asarray(loads, dtype=float)
     temps = np.array([op["temp_min"], op["temp_max"]])
+    swept = None if design else sweep(values)
+
+    def loads_of(direction):
+        return np.asarray(axis.loads_for(direction), dtype=float) if design else swept
+
     out = {}
     for direction in ("extend", "retract"):
+        loads = loads_of(direction)
         sol = solve(axis, loads[:, None], temps[None, :], direction=direction)
-        out[f"{direction}"] = (_worst(sol, "p1"), _worst(sol, "p3"), [str(r) for r in np.asarray(sol.regime)[:, 0]])
+        out[f"{direction}"] = (_worst(sol, "p1"), _worst(sol, "p3"), [str(r) for r in np.asarray(sol.regime)[:, 0]],
+                               loads)
     if axis.arrangement != "bleed-off":
+        loads = loads_of(axis.controlled)
         sol = solve(axis, loads[:, None], temps[None, :], opening=0.0)
         out[f"{axis.controlled}, valve closed"] = (_worst(sol, "p1"), _worst(sol, "p3"),
-                                                    [str(r) for r in np.asarray(sol.regime)[:, 0]])
-    return axis, loads, out
+                                                    [str(r) for r in np.asarray(sol.regime)[:, 0]], loads)
+    return axis, out
 
 
 def largest_safe_rod(axis, p_supply: float, pull: float, rating: float) -> float | None:
@@ -87,7 +95,43 @@ def largest_safe_rod(axis, p_supply: float, pull: float, rating: float) -> float
     return fits[-1] if fits else None
 
 
-def _remedy(axis, loads, solved, lowest, lowest_name, margin_share, buckling_factor, res) -> dict:
+def _ing(direction: str) -> str:
+    return {"extend": "extending", "retract": "retracting"}[direction]
+
+
+def working_pressure(axis) -> tuple[float, str]:
+    """The least relief full-flow pressure the duty needs, Pa, and what sets it.
+
+    The force balance of each motion at each of its load cases with the other chamber at the
+    tank back pressure, ``p = (s F + F_fr + p_t A_o) / A_d`` (the least the driving chamber
+    needs to move it), and the work force stalled at the end of the working motion,
+    ``p = (F_work + p_t A_o) / A_d``; the highest of them.
+
+    >>> from types import SimpleNamespace as NS
+    >>> cyl = NS(a1=math.pi * 0.1 ** 2 / 4, a3=math.pi * (0.1 ** 2 - 0.07 ** 2) / 4)
+    >>> ax = NS(cylinder=cyl, friction=0.0, tank_pressure=0.0, work_force=120e3, work_motion="extend",
+    ...         loads_for=lambda d: (0.0,))
+    >>> p, why = working_pressure(ax)
+    >>> round(p / 1e5, 1), why
+    (152.8, 'the 120 kN work force extending')
+    """
+    c = axis.cylinder
+    best = (0.0, "")
+    for d in ("extend", "retract"):
+        s, a_d, a_o = (1.0, c.a1, c.a3) if d == "extend" else (-1.0, c.a3, c.a1)
+        for f in axis.loads_for(d):
+            p = (s * f + axis.friction + axis.tank_pressure * a_o) / a_d
+            if p > best[0]:
+                best = (p, f"moving the {f / 1e3:.4g} kN case {_ing(d)}")
+    if axis.work_force is not None:
+        a_d, a_o = (c.a1, c.a3) if axis.work_motion == "extend" else (c.a3, c.a1)
+        p = (axis.work_force + axis.tank_pressure * a_o) / a_d
+        if p > best[0]:
+            best = (p, f"the {axis.work_force / 1e3:.4g} kN work force {_ing(axis.work_motion)}")
+    return best
+
+
+def _remedy(axis, solved, lowest, lowest_name, margin_share, buckling_factor, res) -> dict:
     """What would bring the rod side back inside the lowest rating, for the case that caused it.
 
     * Lower the relief: with the meter-out valve closed, ``p3 = (p A1 - F)/A3``, so the
@@ -103,15 +147,22 @@ def _remedy(axis, loads, solved, lowest, lowest_name, margin_share, buckling_fac
     case = max(solved, key=lambda k: float(np.max(solved[k][1])))
     p_rod_max = float(np.max(solved[case][1]))
     moving_rod = max(float(np.max(v[1])) for k, v in solved.items() if "closed" not in k)
-    f_min = float(np.min(loads))
+    f_min = min(float(np.min(v[3])) for v in solved.values())
     advice = []
     closed_case = "closed" in case
     relief_ok = (lowest * c.a3 + f_min) / c.a1
+    p_work, why = working_pressure(axis)
     if relief_ok > axis.tank_pressure:
         res["relief_for_rating"] = result("Relief full-flow pressure that keeps the rod side inside the lowest "
                                           "rating", relief_ok, "pressure", "bar")
-        advice.append(f"lower the relief full-flow pressure to at most {relief_ok / 1e5:.0f} bar "
-                      f"(now {axis.supply.relief.full_flow / 1e5:.0f} bar)")
+        # the relief must stay above what the duty needs, with the pressure margin (common practice)
+        if relief_ok >= p_work * (1 + margin_share):
+            advice.append(f"lower the relief full-flow pressure to at most {relief_ok / 1e5:.0f} bar "
+                          f"(now {axis.supply.relief.full_flow / 1e5:.0f} bar; the duty needs at least "
+                          f"{p_work / 1e5:.0f} bar, for {why})")
+        else:
+            advice.append(f"lowering the relief would not do: the rod side needs it at most {relief_ok / 1e5:.0f} bar, "
+                          f"but the duty needs at least {p_work / 1e5:.0f} bar for {why}")
     setting = lowest / (1 + margin_share)
     if moving_rod < setting:
         res["rod_relief_setting"] = result("Rod-side relief setting that would protect the lowest rating",
@@ -136,7 +187,7 @@ def _remedy(axis, loads, solved, lowest, lowest_name, margin_share, buckling_fac
                           f"{euler / 1e3:.0f} kN)")
     if axis.arrangement == "meter-out":
         meter_in = dataclasses.replace(axis, arrangement="meter-in")
-        s = solve(meter_in, loads, axis.temp_min, opening=0.0)
+        s = solve(meter_in, solved[f"{axis.controlled}, valve closed"][3], axis.temp_min, opening=0.0)
         p = float(np.max(np.asarray(s.p3)))
         res["meter_in_closed_rod"] = result("Highest rod pressure with meter-in, valve closed", p, "pressure", "bar")
         advice.append(f"or meter-in, where the closed valve leaves the rod side at {p / 1e5:.0f} bar "
@@ -148,8 +199,9 @@ def _remedy(axis, loads, solved, lowest, lowest_name, margin_share, buckling_fac
 
 
 def run(values) -> Outcome:
-    axis, loads, solved = cases(values, design_loads(values["operation"]))   # the design's load cases
-    _, sweep_loads, curves = cases(values)                              # the curves
+    axis, solved = cases(values, design=True)    # each motion at its own load cases
+    _, curves = cases(values)                    # the curves, over the sweep
+    sweep_loads = sweep(values)
     rt = values["ratings"]
     margin_share = values["limits"]["pressure_margin"]
     ratings = {
@@ -161,7 +213,7 @@ def run(values) -> Outcome:
     lowest = ratings[lowest_name]
     res = {"area_ratio": {"value": axis.cylinder.phi, "unit": "", "label": "Area ratio φ (cap area / annulus area)"}}
     findings = []
-    for case, (p1, p3, regimes) in solved.items():
+    for case, (p1, p3, _regimes, _loads) in solved.items():
         for chamber, p in (("cap", p1), ("rod", p3)):
             i = int(np.argmax(p))
             key = f"{case.replace(', ', '_').replace(' ', '_')}_{chamber}"
@@ -169,7 +221,7 @@ def run(values) -> Outcome:
     # one finding per chamber and rating, at the worst case
     for chamber in ("cap", "rod"):
         idx = 0 if chamber == "cap" else 1
-        best = max(((float(np.max(v[idx])), c, float(loads[int(np.argmax(v[idx]))])) for c, v in solved.items()))
+        best = max(((float(np.max(v[idx])), c, float(v[3][int(np.argmax(v[idx]))])) for c, v in solved.items()))
         value, case, at_load = best
         for rname, rvalue in ratings.items():
             level, margin = grade(value, rvalue, margin_share)
@@ -182,11 +234,11 @@ def run(values) -> Outcome:
     # what to change when the rod side fails: worked out for the case that caused it
     p_rod_max = max(float(np.max(v[1])) for v in solved.values())
     if p_rod_max > lowest * (1 - margin_share):
-        findings.append(_remedy(axis, loads, solved, lowest, lowest_name, margin_share,
+        findings.append(_remedy(axis, solved, lowest, lowest_name, margin_share,
                                 values["limits"]["buckling_factor"], res))
     series = {}
     regimes = {}
-    for case, (p1, p3, reg) in curves.items():
+    for case, (p1, p3, reg, _loads) in curves.items():
         series[f"cap, {case}"] = curve(p1 / 1e5)
         series[f"rod, {case}"] = curve(p3 / 1e5)
         regimes[f"cap, {case}"] = reg

@@ -105,7 +105,7 @@ def candidates(values):
         raise InputError("operation.target_speed", f"{v_target * 1e3:g} mm/s",
                          f"a speed the pump ({base.supply.flow * TO_LPM:.4g} L/min) can fill, at most "
                          f"{base.supply.flow / a_drive * 1e3:.4g} mm/s")
-    loads = np.asarray(base.loads, dtype=float)
+    loads = np.asarray(base.loads_for(base.controlled), dtype=float)
     f_ref = float(np.sort(loads)[loads.size // 2])     # a real load case: the middle one
     check = base.flow_valve.check  # the design's reverse check, cracking and flow drop
     comp = CompensatedFlowValve.from_setting(q_valve, float(base.oil.density(313.15)), cd=fv["cd"],
@@ -177,8 +177,8 @@ def run(values) -> Outcome:
         return _no_motion(values, stop)
     op, st = values["operation"], values["study"]
     t = st["design_temp"]
-    loads = sweep(values)
-    cases = np.asarray(axes["orifice"].loads, dtype=float)
+    loads = sweep(values, direction=axes["orifice"].controlled)
+    cases = np.asarray(axes["orifice"].loads_for(axes["orifice"].controlled), dtype=float)
     temps = np.array([op["temp_min"], op["temp_max"]])
     v_target = op["target_speed"]
     tol = op["speed_tolerance"]
