@@ -6,8 +6,11 @@
 
 Each argument after the output file is ``path`` (the whole module) or ``path:name,name``
 with top-level function or class names (a class brings all its methods, a function its
-nested functions). Names follow the code, not line numbers, so a selection survives a
-refactor that moves them; a name that no longer exists is an error.
+nested functions). ``NAME@key`` takes one element of a top-level tuple or list ``NAME``:
+the element whose source holds the string literal ``key`` (``RULES@P-CAP-RATING``, the
+entry of that rule in the rules table). Names follow the code, not line numbers, so a
+selection survives a refactor that moves them; a name or key that no longer exists is an
+error.
 
 Not a test module (its name does not start with ``test_``); importing it runs nothing.
 """
@@ -27,6 +30,7 @@ def selected_lines(path: str, names: list[str]) -> list[int]:
         return list(range(1, n_lines + 1))
     tree = ast.parse(source)
     found = {}
+    elements = {}
     for node in tree.body:
         if isinstance(node, (ast.FunctionDef, ast.AsyncFunctionDef, ast.ClassDef)):
             start = min([node.lineno] + [d.lineno for d in node.decorator_list])
@@ -36,6 +40,15 @@ def selected_lines(path: str, names: list[str]) -> list[int]:
             for t in targets:
                 if isinstance(t, ast.Name):
                     found[t.id] = range(node.lineno, node.end_lineno + 1)
+                    if isinstance(node.value, (ast.Tuple, ast.List)):
+                        elements[t.id] = node.value.elts
+    for n in names:
+        table, at, key = n.partition("@")
+        if at and table in elements:
+            hits = [e for e in elements[table]
+                    if any(isinstance(c, ast.Constant) and c.value == key for c in ast.walk(e))]
+            if hits:
+                found[n] = range(hits[0].lineno, hits[0].end_lineno + 1)
     missing = [n for n in names if n not in found]
     if missing:
         raise SystemExit(f"{path}: no top-level function, class or assignment named {', '.join(missing)}")

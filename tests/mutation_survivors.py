@@ -114,9 +114,11 @@ def main(argv) -> int:
     counts: dict = collections.defaultdict(collections.Counter)
     new = []
     used = set()
+    tried = set()                    # (file, squashed line) of every line mutated in this run
     for filename, line, line_number, index, status, tested in rows:
         if only and filename not in only:
             continue
+        tried.add((filename, _squash(line)))
         word = STATUS.get(status, status)
         if word == "survived" and tested != current:
             # a survivor of an earlier run that this run did not try again: mutmut 2 keeps a
@@ -143,11 +145,27 @@ def main(argv) -> int:
         print(f"\n{len(new)} surviving mutant(s) not in the equivalents file:")
         for filename, n, before, after in new:
             print(f"{filename}:{n}\n    - {before}\n    + {after}")
-    stale = [k for k in equivalents if k not in used and k[0] in counts]
-    if stale and counts:
-        print(f"\n{len(stale)} entr(y/ies) of the equivalents file matched no survivor this run "
-              "(killed now, or the line changed): check and remove them")
+    stale = [(k, why) for k in equivalents if k not in used and k[0] in counts
+             and (why := _stale_why(k, tried)) is not None]
+    if stale:
+        print(f"\n{len(stale)} entr(y/ies) of the equivalents file matched no survivor this run: "
+              "check and remove them")
+        for (filename, before, after), why in stale:
+            print(f"{filename} || {before} || {after}  ({why})")
     return 2 if new else 0
+
+
+def _stale_why(key, tried) -> str | None:
+    """Why an entry that matched no survivor is stale, or None when this run did not mutate its
+    line (a ``MUTATION_ONLY`` selection) or it is a pattern (a kind of mutant that may not occur)."""
+    filename, before, _after = key
+    if _is_pattern(before) or _is_pattern(_after):
+        return None
+    if (filename, before) in tried:
+        return "its line was mutated and no mutant survived: killed now"
+    source = {_squash(t) for t in pathlib.Path(filename).read_text(encoding="utf-8").splitlines()} \
+        if pathlib.Path(filename).is_file() else set()
+    return None if before in source else "its line is no longer in the file"
 
 
 if __name__ == "__main__":

@@ -1,5 +1,6 @@
 """The studies' shared grading and finding helpers (workbook.studies.base) by hand: the exact
-edges of the grading rule, the order of the levels, and a finding's numbers in its display unit.
+edges of the grading rule, the order of the levels, and a finding's numbers in its display unit;
+then the rule itself (workbook.grading.grade_margin): its default sense, its tolerance and its zero limit.
 
 The rule (grade's docstring): margin = (limit - value)/|limit| (higher worse) or
 (value - limit)/|limit|; a margin below -1e-12 fails, a margin below the caution share is a
@@ -12,6 +13,7 @@ from __future__ import annotations
 import pytest
 
 from workbook.errors import InternalDefect
+from workbook.grading import TOLERANCE, ZERO_LIMIT, grade_margin
 from workbook.studies import base
 
 BAR = 1e5
@@ -94,3 +96,41 @@ def test_an_alternative_is_at_worst_a_caution():
     out = base.as_alternative({"level": "pass", "detail": ""}, "X")
     assert out == {"level": "pass", "detail": "X is an alternative, not the design's valve"}
     assert base.as_alternative({"level": "caution", "detail": ""}, "X")["level"] == "caution"
+
+
+# --- workbook.grading.grade_margin itself: the rule both the checks and the studies grade by.
+# Its documented rule (module docstring): margin < -TOLERANCE breaches, margin < band is a caution,
+# a limit smaller in magnitude than ZERO_LIMIT (1e-6 SI units) is zero: scaled by 1, no band.
+
+
+def test_grade_margin_takes_a_higher_value_as_worse_unless_told():
+    # 211 bar against a 210 bar rating, higher worse by default: margin (210 - 211)/210 = -1/210 (by hand)
+    margin, level = grade_margin(211e5, 210e5, 0.10)
+    assert (margin, level) == (pytest.approx(-1 / 210, rel=1e-12), "fail")
+    assert grade_margin(211e5, 210e5, 0.10, higher_is_worse=False) == (pytest.approx(1 / 210, rel=1e-12), "caution")
+    assert grade_margin(211e5, 210e5, 0.10, broken="caution")[1] == "caution"
+
+
+def test_grade_margin_breaches_only_below_minus_the_tolerance():
+    """The tolerance itself is not a breach: 1e12 + 1 against a limit of 1e12 has the margin
+    -1/1e12, which is exactly the float -1e-12 (1e12 and 1e12 + 1 are exact binary floats, and
+    the quotient rounds correctly, IEEE 754), so it sits on the tolerance: a caution, not a
+    failure; the next representable value above is one."""
+    assert -1 / 1e12 == -TOLERANCE == -1e-12
+    assert grade_margin(1e12 + 1, 1e12, 0.10) == (-1e-12, "caution")
+    assert grade_margin(1e12 - 1, 1e12, 0.10, higher_is_worse=False) == (-1e-12, "caution")
+    assert grade_margin(1e12 + 2, 1e12, 0.10) == (-2e-12, "fail")
+
+
+def test_a_limit_below_one_millionth_is_zero_and_one_at_it_is_not():
+    """ZERO_LIMIT = 1e-6 SI units. A limit of 1e-6 or 1.5e-6 is a real limit, scaled by
+    itself with its caution band: 0.95e-6 against 1e-6 leaves 5 % (a caution, by hand), 1.4e-6
+    against 1.5e-6 leaves 1/15 = 6.7 %. A limit of 0.99e-6 is zero: the margin is the plain
+    difference (0.04e-6 on a scale of 1) and has no band, so it passes."""
+    assert ZERO_LIMIT == 1e-6
+    margin, level = grade_margin(0.95e-6, 1e-6, 0.10)
+    assert (margin, level) == (pytest.approx(0.05, rel=1e-9), "caution")
+    margin, level = grade_margin(1.4e-6, 1.5e-6, 0.10)
+    assert (margin, level) == (pytest.approx(1 / 15, rel=1e-9), "caution")
+    margin, level = grade_margin(0.95e-6, 0.99e-6, 0.10)
+    assert (margin, level) == (pytest.approx(0.04e-6, rel=1e-9), "pass")
