@@ -255,3 +255,13 @@ def test_a_remedy_that_would_stall_the_press_is_not_offered(tmp_path):
     assert "lowering the relief would not do" in remedy["statement"]
     assert "lower the relief full-flow pressure to at most" not in remedy["statement"]
     assert "154 bar for the 120 kN work force extending" in remedy["statement"]
+
+
+def test_the_return_stroke_speed_is_reported(tmp_path):
+    from workbook.studies import axis_check
+    values, ax = _axis(tmp_path, PRESS, "ram")
+    res = axis_check.run(values).results
+    # raising the platen: the whole 30 L/min into the 40.06 cm2 annulus, 0.5e-3 / 40.06e-4 = 124.8 mm/s
+    a3 = math.pi * (0.1 ** 2 - 0.07 ** 2) / 4
+    assert res["other_speed_max"]["value"] == pytest.approx(30 / 6e4 / a3 * 1e3, rel=1e-6)
+    assert "retract" in res["other_speed_max"]["label"]

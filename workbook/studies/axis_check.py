@@ -65,6 +65,18 @@ def run(values) -> Outcome:
         "p_rod_max": result("Highest rod pressure, controlled motion, valve open", float(np.max(sol.p3)), "pressure", "bar"),
         "heat_max": result("Highest throttling heat, controlled motion, valve open", float(np.max(sol.loss_total)), "power", "kW"),
     }
+    # the other motion (the return stroke) at its own load cases: its speed and pressures too
+    other = "retract" if axis.controlled == "extend" else "extend"
+    o_loads = np.asarray(axis.loads_for(other), dtype=float)
+    o_sol = solve(axis, o_loads[:, None], temps[None, :], direction=other)
+    moving = np.asarray(o_sol.speed) > 0
+    if moving.any():
+        res["other_speed_min"] = result(f"Slowest {other} speed over its load cases and temperatures",
+                                        float(np.min(np.asarray(o_sol.speed)[moving])), "velocity", "mm/s")
+        res["other_speed_max"] = result(f"Fastest {other} speed over its load cases and temperatures",
+                                        float(np.max(np.asarray(o_sol.speed)[moving])), "velocity", "mm/s")
+    res["other_p_cap_max"] = result(f"Highest cap pressure, {other}", float(np.max(o_sol.p1)), "pressure", "bar")
+    res["other_p_rod_max"] = result(f"Highest rod pressure, {other}", float(np.max(o_sol.p3)), "pressure", "bar")
     c = axis.cylinder
     if axis.mass > 0:
         # at each load case (cold oil, controlled motion) with each column's effective modulus
