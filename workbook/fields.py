@@ -31,6 +31,7 @@ from typing import Any, Mapping
 
 from . import safetext, units
 from .errors import InputError
+from .formatting import with_article
 
 #: field kinds that are not physical quantities
 NON_QUANTITY = ("text", "choice", "flag", "quantity_list")
@@ -109,13 +110,11 @@ class Field:
         if self.dimension == "choice":
             return "one of " + ", ".join(repr(c) for c in self.choices)
         dim = self.list_dimension if self.dimension == "quantity_list" else self.dimension
-        words = dim.replace("_", " ")
-        if self.integer:
-            words = "whole number"
+        words = "whole number" if self.integer else units.noun(dim)
         if self.dimension == "quantity_list":
             words = f"a list of {words}s"
         else:
-            words = f"a {words}" if words[0] not in "aeiou" else f"an {words}"
+            words = with_article(words)
         parts = []
         if self.low is not None:
             parts.append(f"{'greater than' if self.low_open else 'at least'} {_fmt(self.low)} {self.unit}".rstrip())
