@@ -7,6 +7,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from ..constants import TO_LPM
 from ..errors import InputError
 from ..numerics import solve_log as _solve_log
 from .cd_law import CdLaw, _orifice_drop, _orifice_flow
@@ -214,8 +215,9 @@ def needle_lift(q, dp, rho, mu, seat_diameter, half_angle, cd=0.61, delta=0.2) -
     too_much = q > full.flow * (1.0 + 1e-12)
     if too_much.any():
         i = np.argmax(too_much.ravel())
-        raise InputError("q", _fmt(float(q.ravel()[i]), "m^3/s"),
-                         f"at most {float(full.flow.ravel()[i]):.6g} m^3/s, what the fully open "
+        # in L/min, as people size a valve (the message reaches the sizing study's findings)
+        raise InputError("q", _fmt(float(q.ravel()[i]) * TO_LPM, "L/min"),
+                         f"at most {float(full.flow.ravel()[i]) * TO_LPM:.4g} L/min, what the fully open "
                          "seat passes at this drop (a larger seat or a larger drop)")
     a_t = np.minimum(q / (cd_b * np.sqrt(2.0 * dp / rho)), seat)
     h_t = 2.0 * a_t / (math.pi * s * (d + np.sqrt(np.maximum(d**2 - 4.0 * a_t * c / math.pi, 0.0))))
